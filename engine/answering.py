@@ -1,0 +1,119 @@
+"""Ask a folder a question: retrieve passages with BM25, read them, fuse, merge, calibrate, maybe abstain.
+
+Pipeline for one question:
+1. the top ``k`` passages by BM25 (optionally scoped to one document or subfolder);
+2. the reader's best spans and null score for each passage;
+3. each span's margin m = span score - passage null score; fused rank score
+   ``(1 - mu) * bm25 / bm25_max + mu * m`` (BERTserini-style linear interpolation);
+4. identical answers (same normalised text) merge into the best-ranked one, keeping the other citations;
+5. abstain (no answers) when the best span's null margin exceeds the calibrated threshold;
+6. confidence = the calibrated logistic of m, in [0, 1].
+"""
+
+from __future__ import annotations
+
+import time
+from dataclasses import dataclass
+from typing import Sequence
+
+from engine import defaults
+from engine.calibration import Calibration
+from engine.metrics import normalize_answer
+from engine.reader.interface import Reading, SpanReader
+from engine.types import Answer, AskResult, Citation, Passage
+
+
+@dataclass(frozen=True)
+class ScoredPassage:
+    passage: Passage
+    bm25: float
+
+
+def rank_answers(
+    question: str,
+    passages: Sequence[ScoredPassage],
+    readings: Sequence[Reading],
+    calibration: Calibration,
+    top_n: int = defaults.TOP_N_ANSWERS,
+    low_confidence_below: float = defaults.LOW_CONFIDENCE_BELOW,
+) -> AskResult:
+    """Pure ranking step (no model, no index): turns passage readings into an ``AskResult``."""
+    if top_n < 1:
+        raise ValueError(f"top_n must be >= 1 (got {top_n})")
+    if len(passages) != len(readings):
+        raise ValueError(f"one reading per passage is needed (got {len(passages)} and {len(readings)})")
+    bm25_max = max((p.bm25 for p in passages), default=0.0) or 1.0
+    candidates = []
+    for scored, reading in zip(passages, readings):
+        for span in reading.spans:
+            margin = span.score - reading.null_score
+            fused = calibration.fused(scored.bm25 / bm25_max, margin)
+            candidates.append((fused, margin, scored, span))
+    if not candidates:
+        return AskResult(question, (), True)
+    candidates.sort(key=lambda c: (-c[0], c[2].passage.passage_id, c[3].start))
+    best_margin = max(c[1] for c in candidates)
+    if -best_margin > calibration.null_margin_threshold:
+        return AskResult(question, (), True)
+    merged: dict[str, list] = {}
+    order: list[str] = []
+    for fused, margin, scored, span in candidates:
+        key = normalize_answer(span.text) or span.text.strip()
+        if not key:
+            continue
+        p = scored.passage
+        citation = Citation(p.doc_path, p.page_number, p.locator, p.start + span.start, p.start + span.end)
+        if key not in merged:
+            merged[key] = [fused, margin, scored, span, []]
+            order.append(key)
+        elif citation not in merged[key][4] and citation != _citation_of(merged[key]):
+            merged[key][4].append(citation)
+    answers = []
+    for key in order[:top_n]:
+        fused, margin, scored, span, others = merged[key]
+        confidence = calibration.confidence(margin)
+        answers.append(Answer(
+            text=span.text, score=round(confidence, 6), citation=_citation_of(merged[key]),
+            passage=scored.passage.text, passage_start=scored.passage.start,
+            low_confidence=confidence < low_confidence_below, reader_logit=margin,
+            retrieval_score=scored.bm25, also_found=tuple(others),
+        ))
+    answers.sort(key=lambda a: -a.score)
+    return AskResult(question, tuple(answers), False)
+
+
+def _citation_of(entry) -> Citation:
+    _, _, scored, span, _ = entry
+    p = scored.passage
+    return Citation(p.doc_path, p.page_number, p.locator, p.start + span.start, p.start + span.end)
+
+
+class Answerer:
+    """Binds an open index, a reader and a calibration. The reader is loaded once and reused."""
+
+    def __init__(self, index, reader: SpanReader, calibration: Calibration,
+                 top_k: int = defaults.TOP_K_PASSAGES) -> None:
+        if top_k < 1:
+            raise ValueError(f"top_k must be >= 1 (got {top_k})")
+        self.index = index
+        self.reader = reader
+        self.calibration = calibration
+        self.top_k = top_k
+
+    def retrieve(self, question: str, doc: str | None = None, subfolder: str | None = None,
+                 k: int | None = None) -> list[ScoredPassage]:
+        hits = self.index.search(question, k or self.top_k, doc=doc, subfolder=subfolder)
+        return [ScoredPassage(passage, float(score)) for passage, score in hits if score > 0]
+
+    def ask(self, question: str, *, top_n: int = defaults.TOP_N_ANSWERS, doc: str | None = None,
+            subfolder: str | None = None) -> AskResult:
+        question = question.strip()
+        if not question:
+            raise ValueError(f"the question is empty (got {question!r})")
+        started = time.perf_counter()
+        passages = self.retrieve(question, doc, subfolder)
+        readings = self.reader.read_pairs([(question, sp.passage.text) for sp in passages], n_best=5)
+        result = rank_answers(question, passages, readings, self.calibration, top_n)
+        scope = f"document {doc}" if doc else (f"folder {subfolder}" if subfolder else None)
+        return AskResult(result.question, result.answers, result.abstained,
+                         round(time.perf_counter() - started, 4), scope)

@@ -1,0 +1,1 @@
+"""The span reader: a narrow interface, pure-numpy span decoding, and the transformer implementation."""

@@ -1,0 +1,153 @@
+"""The transformer reader: a BERT-family encoder with a start/end head, loaded offline from a model folder."""
+
+from __future__ import annotations
+
+import os
+from pathlib import Path
+from typing import Sequence
+
+import numpy as np
+
+from engine import defaults
+from engine.reader.decode import decode_spans, token_span_to_chars
+from engine.reader.interface import Reading, ReadSpan
+from engine.reader.windows import Window, build_windows, pad_batch
+
+QUANTIZE_CHOICES = ("none", "attention", "all-but-ffn-output", "all")
+
+
+def repository_root() -> Path:
+    return Path(__file__).resolve().parents[2]
+
+
+def default_model_dir() -> Path:
+    """The committed reader, or ``EXCERPTOR_READER_DIR`` when set."""
+    override = os.environ.get("EXCERPTOR_READER_DIR")
+    return Path(override) if override else repository_root() / defaults.READER_MODEL_DIR
+
+
+def quantize_reader(model, mode: str):
+    """int8 dynamic quantisation (``torch.ao.quantization.quantize_dynamic``) of a chosen set of Linear layers.
+
+    ``attention``: query/key/value/attention-output layers; ``all-but-ffn-output``: every Linear except each
+    feed-forward block's output projection; ``all``: every Linear in the encoder (the span head stays fp32).
+    """
+    import torch
+    from torch.ao.quantization import quantize_dynamic
+
+    if mode not in QUANTIZE_CHOICES:
+        raise ValueError(f"quantize must be one of {QUANTIZE_CHOICES} (got {mode!r})")
+    if mode == "none":
+        return model
+    names = set()
+    for name, module in model.named_modules():
+        if not isinstance(module, torch.nn.Linear) or "qa_outputs" in name:
+            continue
+        is_attention = ".attention." in name
+        is_ffn_output = name.endswith(".output.dense") and ".attention." not in name
+        if mode == "attention" and is_attention:
+            names.add(name)
+        elif mode == "all-but-ffn-output" and not is_ffn_output:
+            names.add(name)
+        elif mode == "all":
+            names.add(name)
+    return quantize_dynamic(model, names, dtype=torch.qint8)
+
+
+class TransformerReader:
+    """Reads spans with an ``AutoModelForQuestionAnswering`` from a local folder; never touches the network."""
+
+    def __init__(
+        self,
+        model_dir: Path | str | None = None,
+        *,
+        quantize: str | None = None,
+        batch_size: int = defaults.READER_BATCH_SIZE,
+        max_length: int = defaults.MAX_SEQ_LENGTH,
+        stride: int = defaults.DOC_STRIDE,
+        max_answer_tokens: int = defaults.MAX_ANSWER_TOKENS,
+        threads: int | None = None,
+    ) -> None:
+        os.environ["HF_HUB_OFFLINE"] = "1"
+        os.environ["TRANSFORMERS_OFFLINE"] = "1"
+        import torch
+        from transformers import AutoModelForQuestionAnswering, AutoTokenizer
+
+        if batch_size < 1:
+            raise ValueError(f"batch_size must be >= 1 (got {batch_size})")
+        self.model_dir = Path(model_dir) if model_dir else default_model_dir()
+        if not (self.model_dir / "config.json").exists():
+            raise ValueError(f"no reader model in {self.model_dir} (config.json missing)")
+        if threads:
+            torch.set_num_threads(threads)
+        self.quantize = quantize or read_default_quantize(self.model_dir)
+        self.tokenizer = AutoTokenizer.from_pretrained(self.model_dir, local_files_only=True)
+        model = AutoModelForQuestionAnswering.from_pretrained(
+            self.model_dir, local_files_only=True, use_safetensors=True, dtype=torch.float32
+        )
+        model.eval()
+        self.model = quantize_reader(model, self.quantize)
+        self.batch_size = batch_size
+        self.max_length = max_length
+        self.stride = stride
+        self.max_answer_tokens = max_answer_tokens
+        self.name = f"{self.model_dir.name} ({self.quantize})"
+        self.windows_read = 0
+
+    def window_logits(self, windows: Sequence[Window]) -> list[tuple[np.ndarray, np.ndarray]]:
+        """Start and end logits per window. Windows are batched by length to limit padding."""
+        import torch
+
+        order = sorted(range(len(windows)), key=lambda i: len(windows[i].input_ids))
+        out: list[tuple[np.ndarray, np.ndarray] | None] = [None] * len(windows)
+        with torch.inference_mode():
+            for lo in range(0, len(order), self.batch_size):
+                idx = order[lo: lo + self.batch_size]
+                batch = {k: torch.from_numpy(v) for k, v in pad_batch([windows[i] for i in idx]).items()}
+                result = self.model(**batch)
+                starts = result.start_logits.float().numpy()
+                ends = result.end_logits.float().numpy()
+                for row, i in enumerate(idx):
+                    n = len(windows[i].input_ids)
+                    out[i] = (starts[row, :n], ends[row, :n])
+        self.windows_read += len(windows)
+        return out  # type: ignore[return-value]
+
+    def read_pairs(self, pairs: Sequence[tuple[str, str]], n_best: int = 5) -> list[Reading]:
+        windows = build_windows(self.tokenizer, pairs, max_length=self.max_length, stride=self.stride)
+        logits = self.window_logits(windows)
+        return collect_readings(pairs, windows, logits, n_best, self.max_answer_tokens)
+
+
+def collect_readings(pairs, windows, logits, n_best: int, max_answer_tokens: int) -> list[Reading]:
+    """Merge window spans per pair: best score per character span; null score = min over windows."""
+    best: list[dict[tuple[int, int], float]] = [dict() for _ in pairs]
+    nulls = [np.inf] * len(pairs)
+    counts = [0] * len(pairs)
+    for window, (start, end) in zip(windows, logits):
+        spans, null = decode_spans(
+            start, end, np.array(window.context_mask), max_answer_tokens=max_answer_tokens, n_best=n_best
+        )
+        p = window.pair_index
+        counts[p] += 1
+        nulls[p] = min(nulls[p], null)
+        for span in spans:
+            key = token_span_to_chars(span, window.offsets)
+            if key[1] > key[0] and span.score > best[p].get(key, -np.inf):
+                best[p][key] = span.score
+    readings = []
+    for p, (_, context) in enumerate(pairs):
+        ranked = sorted(best[p].items(), key=lambda kv: (-kv[1], kv[0]))[:n_best]
+        spans = tuple(ReadSpan(s, e, context[s:e], float(score)) for (s, e), score in ranked)
+        readings.append(Reading(spans, float(nulls[p]) if counts[p] else 0.0, counts[p]))
+    return readings
+
+
+def read_default_quantize(model_dir: Path) -> str:
+    """The model folder's ``excerptor.json`` names its default quantisation; 'none' if absent."""
+    import json
+
+    meta = model_dir / "excerptor.json"
+    if meta.exists():
+        return json.loads(meta.read_text(encoding="utf-8")).get("default_quantize", "none")
+    return "none"

@@ -1,0 +1,1 @@
+"""Training-data helpers for the span reader (invented data only)."""

@@ -1,0 +1,138 @@
+"""Tune, on dev data only, what the shipped reader needs besides its weights.
+
+- quantisation: the fastest int8 variant whose dev F1 is within 1.5 of fp32 (TyDi-en dev);
+- the no-answer margin threshold: maximises SQuAD v2.0 F1 on a dev mix of answerable and unanswerable pairs
+  (TyDi-en dev with its own paragraph, the same question against another question's paragraph, and CUAD dev
+  slices);
+- the fusion weight mu: maximises top-answer F1 when the 440 TyDi-en dev paragraphs form one BM25 corpus;
+- the confidence curve: a logistic fit of "top answer has F1 >= 0.5" on the margin.
+No test/ file is read here.
+"""
+
+from __future__ import annotations
+
+import random
+import time
+from dataclasses import replace
+from pathlib import Path
+
+import numpy as np
+
+from engine.bm25 import Bm25Index
+from engine.calibration import Calibration, fit_logistic
+from engine.evaluation import predict_examples
+from engine.metrics import f1_v1, f1_v2, score_v1
+from engine.squad_data import SquadExample, load_examples
+from engine.text_tokens import tokenize_for_search
+from engine.training.features import expand_examples
+from engine.types import Passage
+
+MAX_F1_LOSS = 1.5
+
+
+def dev_mix(data_dir: Path, rng: random.Random, cuad_limit: int = 400) -> list[SquadExample]:
+    tydi = load_examples(data_dir / "dev/tydiqa_goldp_en_dev.json.gz")
+    contexts = [e.context for e in tydi]
+    mismatched = []
+    for k, e in enumerate(tydi):
+        other = contexts[(k + 1 + rng.randrange(len(contexts) - 1)) % len(contexts)]
+        if other != e.context:
+            mismatched.append(SquadExample(e.qid + "#x", e.title, e.question, other, (), True))
+    cuad = load_examples(data_dir / "dev/cuad_dev.json.gz")
+    rng.shuffle(cuad)
+    sliced = expand_examples(cuad[:cuad_limit], rng, negatives_per_example=0.5)
+    return tydi + mismatched + sliced
+
+
+def best_threshold(predictions, examples) -> tuple[float, float]:
+    """The margin threshold with the best v2.0 F1; candidates are the observed margins."""
+    rows = []
+    for e in examples:
+        p = predictions[e.qid]
+        golds = [a.text for a in e.answers] or [""]
+        rows.append((p.null_margin, max(f1_v2(p.text, g) for g in golds), float(not e.answers)))
+    margins = sorted({r[0] for r in rows if np.isfinite(r[0])})
+    best = (-np.inf, 0.0)
+    for t in [margins[0] - 1.0, *margins]:
+        total = sum((r[2] if r[0] > t else r[1]) for r in rows)  # abstain when null - best > t
+        if total > best[0]:
+            best = (total, t)
+    return float(best[1]), 100.0 * best[0] / len(rows)
+
+
+def fusion_and_confidence(reader, data_dir: Path, k: int = 8):
+    """Grid-search mu on an open TyDi-en dev corpus; fit the confidence curve on the chosen mu's answers."""
+    examples = load_examples(data_dir / "dev/tydiqa_goldp_en_dev.json.gz")
+    contexts = sorted({e.context for e in examples})
+    index = Bm25Index.build([tokenize_for_search(c) for c in contexts])
+    per_question = []
+    for e in examples:
+        hits = index.top_k(tokenize_for_search(e.question), k)
+        pairs = [(e.question, contexts[pos]) for pos, _ in hits]
+        readings = reader.read_pairs(pairs, n_best=3)
+        per_question.append((e, hits, readings))
+    grid = [round(x, 2) for x in np.linspace(0.0, 1.0, 11)]
+    results = {}
+    for mu in grid:
+        calibration = Calibration(fusion_weight=mu, null_margin_threshold=1e9)
+        f1s, margins = [], []
+        for e, hits, readings in per_question:
+            best = _top_answer(calibration, hits, readings)
+            golds = [a.text for a in e.answers]
+            f1s.append(max(f1_v1(best[0], g) for g in golds) if best else 0.0)
+            margins.append(best[1] if best else -20.0)
+        results[mu] = (float(np.mean(f1s)) * 100, f1s, margins)
+    mu = max(grid, key=lambda m: (results[m][0], -abs(m - 0.5)))
+    _, f1s, margins = results[mu]
+    slope, intercept = fit_logistic(np.array(margins), (np.array(f1s) >= 0.5).astype(float))
+    return mu, {str(m): round(results[m][0], 2) for m in grid}, slope, intercept
+
+
+def _top_answer(calibration: Calibration, hits, readings):
+    bm25_max = max((s for _, s in hits), default=1.0) or 1.0
+    best = None
+    for (pos, score), reading in zip(hits, readings):
+        for span in reading.spans:
+            margin = span.score - reading.null_score
+            fused = calibration.fused(score / bm25_max, margin)
+            if best is None or fused > best[2]:
+                best = (span.text, margin, fused)
+    return best
+
+
+def calibrate(model_dir: Path, data_dir: Path, seed: int = 7, log=print) -> dict:
+    from engine.reader.transformer_reader import QUANTIZE_CHOICES, TransformerReader
+
+    rng = random.Random(seed)
+    tydi = load_examples(data_dir / "dev/tydiqa_goldp_en_dev.json.gz")
+    golds = {e.qid: [a.text for a in e.answers] for e in tydi}
+    variants = {}
+    for mode in QUANTIZE_CHOICES:
+        reader = TransformerReader(model_dir, quantize=mode)
+        started = time.perf_counter()
+        predictions = predict_examples(reader, tydi, threshold=None)
+        seconds = time.perf_counter() - started
+        f1 = score_v1({k: v.text for k, v in predictions.items()}, golds).f1
+        variants[mode] = {"dev_f1": round(f1, 2), "ms_per_window": round(1000 * seconds / reader.windows_read, 2)}
+        log(f"quantize={mode}: TyDi-en dev F1 {f1:.2f}, {variants[mode]['ms_per_window']} ms/window")
+    fp32 = variants["none"]["dev_f1"]
+    eligible = [m for m in QUANTIZE_CHOICES if variants[m]["dev_f1"] >= fp32 - MAX_F1_LOSS]
+    chosen = min(eligible, key=lambda m: variants[m]["ms_per_window"])
+    log(f"default quantisation: {chosen}")
+    reader = TransformerReader(model_dir, quantize=chosen)
+    mix = dev_mix(data_dir, rng)
+    predictions = predict_examples(reader, mix, threshold=None)
+    threshold, v2_f1 = best_threshold(predictions, mix)
+    log(f"no-answer threshold {threshold:.3f} (dev mix v2.0 F1 {v2_f1:.2f} on {len(mix)} questions)")
+    mu, grid, slope, intercept = fusion_and_confidence(reader, data_dir)
+    log(f"fusion weight mu={mu} (grid F1 {grid}); confidence = sigmoid({slope:.3f} m + {intercept:.3f})")
+    calibration = Calibration(threshold, mu, slope, intercept, chosen)
+    return {"calibration": calibration, "quantize_variants": variants, "fusion_grid_f1": grid,
+            "dev_mix_v2_f1": round(v2_f1, 2), "dev_mix_size": len(mix)}
+
+
+def with_threshold(calibration: Calibration, threshold: float) -> Calibration:
+    return replace(calibration, null_margin_threshold=threshold)
+
+
+__all__ = ["calibrate", "Passage"]

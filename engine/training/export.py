@@ -1,0 +1,28 @@
+"""Ship a trained reader: fp16 safetensors, config and tokenizer, plus ``excerptor.json`` (calibration)."""
+
+from __future__ import annotations
+
+import json
+import os
+import shutil
+from pathlib import Path
+
+
+def export_reader(trained_dir: Path, target_dir: Path, calibration: dict) -> Path:
+    """Write the model in fp16 (half the bytes; loaded back as fp32) into ``target_dir``, atomically."""
+    os.environ["HF_HUB_OFFLINE"] = "1"
+    import torch
+    from transformers import AutoModelForQuestionAnswering, AutoTokenizer
+
+    trained_dir, target_dir = Path(trained_dir), Path(target_dir)
+    tmp = target_dir.with_name(target_dir.name + ".tmp")
+    if tmp.exists():
+        shutil.rmtree(tmp)
+    model = AutoModelForQuestionAnswering.from_pretrained(trained_dir, local_files_only=True, use_safetensors=True)
+    model.to(torch.float16).save_pretrained(tmp, safe_serialization=True)
+    AutoTokenizer.from_pretrained(trained_dir, local_files_only=True).save_pretrained(tmp)
+    (tmp / "excerptor.json").write_text(json.dumps(calibration, indent=2, sort_keys=True) + "\n", encoding="utf-8")
+    if target_dir.exists():
+        shutil.rmtree(target_dir)
+    os.replace(tmp, target_dir)
+    return target_dir

