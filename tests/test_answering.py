@@ -1,0 +1,76 @@
+"""Ranking, merging, abstaining and confidence, on hand-made readings (no model).
+
+Fusion follows the linear interpolation of Yang et al. (2019), "End-to-End Open-Domain Question Answering with
+BERTserini": S = (1 - mu) * S_bm25 + mu * S_reader. The values below are computed by hand from that formula.
+"""
+
+import math
+
+import pytest
+
+from engine.answering import ScoredPassage, rank_answers
+from engine.calibration import Calibration, fit_logistic
+from engine.reader.interface import Reading, ReadSpan
+from engine.types import Passage
+
+P1 = Passage(1, "lease.pdf", 3, "p. 3", 100, 160, "Either party may terminate on ninety (90) days' notice.")
+P2 = Passage(2, "supply.pdf", 2, "p. 2", 40, 95, "Termination requires ninety (90) days' notice in writing.")
+CAL = Calibration(null_margin_threshold=2.0, fusion_weight=0.5, confidence_slope=1.0, confidence_intercept=0.0)
+
+
+def span(passage: Passage, text: str, score: float) -> ReadSpan:
+    start = passage.text.index(text)
+    return ReadSpan(start, start + len(text), text, score)
+
+
+def test_fused_ranking_and_citation_offsets():
+    readings = [Reading((span(P1, "ninety (90) days", 6.0),), 2.0, 1),
+                Reading((span(P2, "in writing", 7.0),), 1.0, 1)]
+    result = rank_answers("notice?", [ScoredPassage(P1, 10.0), ScoredPassage(P2, 5.0)], readings, CAL)
+    # P1: 0.5 * 10/10 + 0.5 * (6 - 2) = 2.5 ; P2: 0.5 * 5/10 + 0.5 * (7 - 1) = 3.25 -> "in writing" ranks first
+    # by fused score, but answers are listed by confidence = sigmoid(margin): sigmoid(6) > sigmoid(4).
+    assert [a.text for a in result.answers] == ["in writing", "ninety (90) days"]
+    top = result.answers[0]
+    assert top.score == pytest.approx(1 / (1 + math.exp(-6.0)), abs=1e-6)
+    assert top.citation.file == "supply.pdf" and top.citation.page == 2
+    # Citation offsets index the page text: passage offset + span offset.
+    assert top.citation.start == 40 + P2.text.index("in writing")
+    assert not result.abstained
+
+
+def test_identical_answers_merge_and_keep_other_citations():
+    readings = [Reading((span(P1, "ninety (90) days", 6.0),), 1.0, 1),
+                Reading((span(P2, "ninety (90) days", 5.0),), 1.0, 1)]
+    result = rank_answers("notice?", [ScoredPassage(P1, 8.0), ScoredPassage(P2, 6.0)], readings, CAL)
+    assert len(result.answers) == 1
+    answer = result.answers[0]
+    assert answer.citation.file == "lease.pdf"
+    assert [c.file for c in answer.also_found] == ["supply.pdf"]
+
+
+def test_abstains_when_null_wins_by_more_than_threshold():
+    readings = [Reading((span(P1, "ninety (90) days", 1.0),), 4.0, 1)]  # null - best = 3.0 > 2.0
+    result = rank_answers("Who is the guarantor?", [ScoredPassage(P1, 3.0)], readings, CAL)
+    assert result.abstained and result.answers == ()
+    readings = [Reading((span(P1, "ninety (90) days", 2.5),), 4.0, 1)]  # 1.5 <= 2.0: answer, low confidence
+    result = rank_answers("notice?", [ScoredPassage(P1, 3.0)], readings, CAL)
+    assert not result.abstained and result.answers[0].low_confidence
+
+
+def test_no_passages_means_abstention_and_bad_arguments_raise():
+    assert rank_answers("q", [], [], CAL).abstained
+    with pytest.raises(ValueError, match=r"\(got"):
+        rank_answers("q", [ScoredPassage(P1, 1.0)], [], CAL)
+    with pytest.raises(ValueError, match=r"\(got"):
+        rank_answers("q", [], [], CAL, top_n=0)
+
+
+def test_logistic_fit_recovers_a_known_curve():
+    # Data drawn from p = sigmoid(2x - 1) (a textbook logistic model); the maximum-likelihood fit should be close.
+    import numpy as np
+
+    rng = np.random.default_rng(0)
+    x = rng.normal(size=4000)
+    y = (rng.random(4000) < 1 / (1 + np.exp(-(2 * x - 1)))).astype(float)
+    a, b = fit_logistic(x, y)
+    assert a == pytest.approx(2.0, abs=0.2) and b == pytest.approx(-1.0, abs=0.15)

@@ -1,0 +1,78 @@
+"""The CLI contract: ``index`` and ``ask`` output schemas, with a fake reader (no model)."""
+
+import json
+import shutil
+from pathlib import Path
+
+import pytest
+
+import engine.workspace
+from engine.cli import main
+from tests.fakes import FAKE_CALIBRATION, FakeReader
+
+DEMO = Path(__file__).resolve().parents[1] / "demo_docs"
+ANSWER_KEYS = {"text": str, "score": float, "file": str, "start": int, "end": int, "passage": str}
+
+
+@pytest.fixture()
+def folder(tmp_path, monkeypatch):
+    target = tmp_path / "docs"
+    shutil.copytree(DEMO, target)
+    monkeypatch.setattr(engine.workspace, "load_default_reader", lambda quantize=None: (FakeReader(), FAKE_CALIBRATION))
+    return target
+
+
+def check_answer_schema(obj: dict) -> None:
+    assert set(obj) >= {"question", "answers", "abstained"}
+    assert isinstance(obj["abstained"], bool)
+    scores = [a["score"] for a in obj["answers"]]
+    assert scores == sorted(scores, reverse=True)
+    for a in obj["answers"]:
+        for key, kind in ANSWER_KEYS.items():
+            assert isinstance(a[key], kind), key
+        assert a["page"] is None or isinstance(a["page"], int)
+        assert 0.0 <= a["score"] <= 1.0
+        assert a["end"] > a["start"]
+
+
+def test_index_json_summary(folder, capsys):
+    assert main(["index", str(folder), "--json"]) == 0
+    report = json.loads(capsys.readouterr().out)
+    assert len(report["indexed"]) == 5 and report["failed"] == []
+
+
+def test_ask_json_schema_and_offsets_index_page_text(folder, capsys):
+    assert main(["ask", str(folder), "What is the governing law of the lease?", "--json"]) == 0
+    obj = json.loads(capsys.readouterr().out)
+    check_answer_schema(obj)
+    assert obj["answers"], "the fake reader always finds overlapping words in the demo folder"
+    from engine.indexer import open_index
+
+    with open_index(folder) as index:
+        for a in obj["answers"]:
+            page_text = index.store.get_page_text(a["file"], a["page"], a["locator"])
+            assert page_text[a["start"]: a["end"]] == a["text"]
+
+
+def test_ask_scoped_to_one_document(folder, capsys):
+    assert main(["ask", str(folder), "notice period", "--doc", "land_lease.pdf", "--json"]) == 0
+    obj = json.loads(capsys.readouterr().out)
+    assert {a["file"] for a in obj["answers"]} <= {"land_lease.pdf"}
+
+
+def test_ask_many_questions_jsonl(folder, tmp_path, capsys):
+    qfile = tmp_path / "q.jsonl"
+    qfile.write_text('{"id": "a", "question": "Who is the tenant?"}\n{"id": "b", "question": "renewal term"}\n')
+    assert main(["ask", str(folder), "--questions", str(qfile), "--json"]) == 0
+    lines = [json.loads(line) for line in capsys.readouterr().out.splitlines()]
+    assert [line["id"] for line in lines] == ["a", "b"]
+    for line in lines:
+        check_answer_schema(line)
+        assert isinstance(line["seconds"], float)
+
+
+def test_bad_question_file_is_a_clear_error(folder, tmp_path, capsys):
+    qfile = tmp_path / "q.jsonl"
+    qfile.write_text('{"id": "a"}\n')
+    assert main(["ask", str(folder), "--questions", str(qfile), "--json"]) == 2
+    assert "line 1" in capsys.readouterr().err
