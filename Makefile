@@ -3,6 +3,8 @@ PYTHON ?= python3.11
 VENV := .venv
 BIN := $(VENV)/bin
 STAMP := $(VENV)/.installed
+# The CPU build of torch lies on local disk on our machines; elsewhere pip uses its usual index.
+FIND_LINKS := $(if $(wildcard /opt/wheels),--find-links /opt/wheels,)
 
 .PHONY: setup demo test ask bench clean
 
@@ -10,7 +12,7 @@ $(STAMP): pyproject.toml
 	test -x $(BIN)/python || $(PYTHON) -m venv $(VENV)
 	$(BIN)/python -m pip install --quiet --upgrade pip
 	# torch==2.13.0 is pinned: the CPU build (a plain `torch` would pull a multi-GB CUDA build).
-	$(BIN)/python -m pip install --quiet -e '.[test]'
+	$(BIN)/python -m pip install --quiet $(FIND_LINKS) -e '.[test]'
 	touch $(STAMP)
 
 setup: $(STAMP)

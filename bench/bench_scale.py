@@ -7,7 +7,8 @@ Per corpus size (documents from bench/make_corpus.py, reused from --work when al
   of refresh_index after the engine's imports (about 2 s, reported apart), pages/s (.txt pages, so no PDF
   parsing) and the child's peak memory (getrusage ru_maxrss; its level right after the imports too);
 - index size on disk (the SQLite store plus the BM25 file);
-- PDF parsing pages/s on the PDF sample: the engine's read_pdf, and raw pypdf extract_text (the limit);
+- PDF parsing pages/s on the PDF sample: the engine's read_pdf, and raw pypdf extract_text (the limit; the
+  engine adds text repair on top);
 - retrieval latency over the sample questions, each timed ``--repeat`` times keeping its fastest:
   ours = Bm25Index.top_k; reference = rank_bm25.BM25Okapi.get_scores + argsort, on the same token lists;
   also the full search (tokenise + rank + fetch passages) and a search scoped to the question's document;
@@ -26,6 +27,7 @@ import io
 import json
 import os
 import platform
+import shlex
 import shutil
 import subprocess
 import sys
@@ -124,9 +126,13 @@ def machine_info() -> dict[str, str]:
 
 
 def run_build_child(folder: Path) -> dict:
+    """Run the build in a fresh Python. It is started through /bin/sh (which forks it) because Linux carries
+    the starting process's peak RSS into ru_maxrss across exec; the extra hop keeps this bench's own memory out."""
     env = {**os.environ, "PYTHONPATH": str(REPO)}
-    out = subprocess.run([sys.executable, "-c", _BUILD_CHILD, str(folder)], cwd=REPO, env=env,
-                         capture_output=True, text=True, check=True)
+    cmd = [sys.executable, "-c", _BUILD_CHILD, str(folder)]
+    if Path("/bin/sh").exists():
+        cmd = ["/bin/sh", "-c", '"$0" "$@"; exit $?', *cmd]
+    out = subprocess.run(cmd, cwd=REPO, env=env, capture_output=True, text=True, check=True)
     return json.loads(out.stdout.strip().splitlines()[-1])
 
 
@@ -140,25 +146,29 @@ def bench_indexing(corpus: Corpus) -> dict:
     return {"first": first, "again": again, "disk_total": sum(files.values()), "disk_bm25": bm25}
 
 
-def bench_pdf(corpus: Corpus) -> dict | None:
+def _raw_pypdf(data: bytes) -> int:
     from pypdf import PdfReader
 
+    pages = PdfReader(io.BytesIO(data), strict=False).pages
+    for page in pages:
+        page.extract_text()
+    return len(pages)
+
+
+def bench_pdf(corpus: Corpus, repeat: int) -> dict | None:
+    """Per PDF, the fastest of ``repeat`` reads, engine and raw pypdf alternating; pages/s = pages / summed time."""
     from engine.ingest.pdf_pages import read_pdf
 
     if not corpus.pdf_files:
         return None
-    blobs = [(corpus.pdf_folder / name).read_bytes() for name in corpus.pdf_files]
-    t = time.perf_counter()
-    engine_pages = sum(len(read_pdf(data)[0]) for data in blobs)
-    engine_s = time.perf_counter() - t
-    t = time.perf_counter()
-    raw_pages = 0
-    for data in blobs:
-        for page in PdfReader(io.BytesIO(data)).pages:
-            page.extract_text()
-            raw_pages += 1
-    raw_s = time.perf_counter() - t
-    return {"files": len(blobs), "pages": engine_pages, "engine_s": engine_s, "raw_pages": raw_pages, "raw_s": raw_s}
+    out = {"files": len(corpus.pdf_files), "pages": 0, "engine_s": 0.0, "raw_pages": 0, "raw_s": 0.0}
+    for name in corpus.pdf_files:
+        data = (corpus.pdf_folder / name).read_bytes()
+        out["pages"] += len(read_pdf(data)[0])
+        out["raw_pages"] += _raw_pypdf(data)
+        out["engine_s"] += fastest(lambda d=data: read_pdf(d), repeat)
+        out["raw_s"] += fastest(lambda d=data: _raw_pypdf(d), repeat)
+    return out
 
 
 def reference_top(ref: BM25Okapi, tokens: list[str], k: int) -> tuple[np.ndarray, np.ndarray]:
@@ -277,7 +287,8 @@ def bench_size(n_docs: int, args: argparse.Namespace) -> dict:
     corpus = ensure_corpus(args.work / f"docs{n_docs}-seed{args.seed}", n_docs, args.seed,
                            min(args.pdf_sample, n_docs))
     print(f"[{n_docs} documents] corpus ready: {corpus.n_pages} pages", file=sys.stderr, flush=True)
-    out = {"docs": n_docs, "pages": corpus.n_pages, "indexing": bench_indexing(corpus), "pdf": bench_pdf(corpus)}
+    out = {"docs": n_docs, "pages": corpus.n_pages, "indexing": bench_indexing(corpus),
+           "pdf": bench_pdf(corpus, args.repeat)}
     print(f"[{n_docs} documents] indexed; timing retrieval", file=sys.stderr, flush=True)
     out["retrieval"] = bench_retrieval(corpus, args.queries, args.repeat)
     out["reader"] = bench_reader(corpus, args.ask_questions, args.brute_questions) if args.reader else None
@@ -338,12 +349,13 @@ def goal_rows(results: list[dict], recall: dict, reader_requested: bool) -> list
     else:
         most = max(r["retrieval"]["passages"] for r in results)
         speed = (f"largest run: {most:,} passages", "pending (needs --sizes 5000)")
-    timed = [r for r in results if isinstance(r["reader"], dict)]
+    timed = sorted((r for r in results if isinstance(r["reader"], dict)), key=lambda x: x["pages"])
     if timed:
-        r = min(timed, key=lambda x: abs(x["pages"] - GOAL_ASK_PAGES))
+        r = next((x for x in timed if x["pages"] >= GOAL_ASK_PAGES), timed[-1])  # smallest run at >= 2,000 pages
         a = r["reader"]["ask"]
         ok = a.p50 <= GOAL_ASK_P50 and a.p95 <= GOAL_ASK_P95
-        ask = (f"{a.p50:.3f} s / {a.p95:.3f} s at {r['pages']:,} pages", "met" if ok else "NOT met")
+        status = ("met" if ok else "NOT met") if r["pages"] >= GOAL_ASK_PAGES else "pending (run --sizes 200 --reader)"
+        ask = (f"{a.p50:.3f} s / {a.p95:.3f} s at {r['pages']:,} pages", status)
     else:
         why = next((r["reader"] for r in results if isinstance(r["reader"], str)), None)
         ask = ("-", why or ("pending (run with --reader)" if not reader_requested else "pending"))
@@ -359,7 +371,7 @@ def goal_rows(results: list[dict], recall: dict, reader_requested: bool) -> list
 
 
 def render(args: argparse.Namespace, machine: dict, results: list[dict], recall: dict, seconds: float) -> str:
-    cmd = "python bench/bench_scale.py " + " ".join(args.argv)
+    cmd = shlex.join(["python", "bench/bench_scale.py", *args.argv])
     lines = ["# Scale benchmarks", "",
              f"Generated by `{cmd}` on {dt.datetime.now().strftime('%Y-%m-%d %H:%M')} ({seconds:.0f} s).",
              "Corpora: bench/make_corpus.py (invented agreements, about 10 .txt pages each, seed "
@@ -411,6 +423,12 @@ def main(argv: list[str] | None = None) -> int:
     machine = machine_info()
     results = [bench_size(n, args) for n in args.sizes]
     recall = demo_recall()
+    if hasattr(os, "getloadavg"):
+        machine["load average at end (1/5/15 min)"] = ", ".join(f"{x:.2f}" for x in os.getloadavg())
+    import resource
+
+    peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
+    machine["peak memory of this bench process (rank-bm25 included)"] = f"{peak:.0f} MB"
     report = render(args, machine, results, recall, time.perf_counter() - started)
     print(report)
     if args.out:

@@ -11,8 +11,9 @@ Layout written under OUT_DIR:
 
 Every document is one invented agreement from ``engine.training.synth_contracts`` (its type, parties, amounts,
 dates and clause wording vary); its pages are built from that agreement's clause windows, 8-12 pages of
-roughly 350-550 words (about 440 on average). Document i uses ``random.Random(seed * 1_000_003 + i)``, so the output depends only on
-(seed, i): the first 100 documents of a 1,000-document corpus equal the 100-document corpus.
+roughly 350-550 words (about 440 on average). Document i uses ``random.Random(seed * 1_000_003 + i)``, so the
+output depends only on (seed, i): the first 100 documents of a 1,000-document corpus equal the 100-document
+corpus.
 
 CLI: ``python bench/make_corpus.py OUT_DIR --docs N [--seed S] [--pdf-sample M] [--overwrite]``
 """

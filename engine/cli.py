@@ -21,6 +21,11 @@ from engine.workspace import CAUTION
 COMMANDS = ("index", "ask", "evaluate", "train-reader", "calibrate-reader", "sweep", "export", "open")
 
 
+def printable(name: str) -> str:
+    """A file name on one line: control characters (a newline in a name) are shown escaped, as ``\\n``."""
+    return "".join(ch if ch.isprintable() else repr(ch)[1:-1] for ch in name)
+
+
 def answer_json(result, folder: Path) -> dict:
     """The CLI's JSON schema for one question."""
     return {
@@ -41,7 +46,7 @@ def print_readable(result) -> None:
         print("   The folder does not seem to answer this question.")
     for rank, a in enumerate(result.answers, 1):
         flag = "  [LOW CONFIDENCE]" if a.low_confidence else ""
-        where = f"{a.citation.file}, {a.citation.locator}"
+        where = f"{printable(a.citation.file)}, {a.citation.locator}"
         print(f"{rank:>2}. {a.text!r}  confidence {a.score:.2f}{flag}\n    {where}, characters {a.citation.start}-{a.citation.end}")
     print(f"\n{CAUTION}")
 
@@ -67,9 +72,9 @@ def run_index(args) -> int:
         print(f"indexed {len(report.indexed)}, unchanged {len(report.unchanged)}, removed {len(report.removed)}, "
               f"failed {len(report.failed)} ({report.n_passages} passages, {report.seconds:.2f} s)")
         for problem in report.failed:
-            print(f"  failed: {problem.path}: {problem.reason}")
+            print(f"  failed: {printable(problem.path)}: {problem.reason}")
         for problem in report.warnings:
-            print(f"  warning: {problem.path}: {problem.reason}")
+            print(f"  warning: {printable(problem.path)}: {problem.reason}")
     return 0
 
 
@@ -151,12 +156,12 @@ def build_parser() -> argparse.ArgumentParser:
     add_evaluate_parser(sub)
     add_train_parser(sub)
     add_calibrate_parser(sub)
-    try:
-        from engine.cli_review import add_review_parsers
+    from engine.cli_sweep import add_sweep_parser
 
-        add_review_parsers(sub)
-    except ImportError:  # pragma: no cover - while the review commands are not built
-        pass
+    add_sweep_parser(sub)
+    from engine.cli_review import add_review_parsers
+
+    add_review_parsers(sub)
     return parser
 
 

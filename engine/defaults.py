@@ -32,6 +32,7 @@ INDEX_DB_NAME = "index.sqlite3"
 MAX_FILE_BYTES = 200 * 1024 * 1024
 MAX_FILE_SECONDS = 60.0
 MAX_PDF_PAGES = 5000
+PDF_IN_CHILD_PROCESS = True  # a hung PDF page is killed after MAX_FILE_SECONDS * 2 + 10 s
 
 # Model folder (relative to the repository / installed package root).
 READER_MODEL_DIR = "models/reader-v1"

@@ -216,3 +216,11 @@ def delete_on_reach(root: Path, rel: str = VANISHING) -> Callable[[object], None
             (Path(root) / rel).unlink(missing_ok=True)
 
     return progress
+
+
+def hanging_read_pdf(data: bytes, max_pages: int, max_seconds: float):
+    """A stand-in PDF reader whose one page never finishes (for the hard time limit test)."""
+    import time as _time
+
+    while True:
+        _time.sleep(1)

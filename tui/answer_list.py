@@ -13,7 +13,7 @@ from textual.widgets import OptionList
 from textual.widgets.option_list import Option
 
 from tui import palette
-from tui.spans import confidence_chip, decision_chip, snippet, where
+from tui.spans import confidence_chip, decision_chip, one_line, snippet, where
 
 NO_ANSWER = "The folder does not seem to answer this question."
 NO_ANSWER_HINT = "Try other words, or widen the scope (w)."
@@ -23,12 +23,12 @@ class AnswerList(OptionList):
     """One option per answer: rank, confidence chip, answer text, decision; then file · locator and context."""
 
     BINDINGS = [
-        Binding("o", "jump", "Open at page"),
+        Binding("o", "jump", "Open", tooltip="Open the document at the cited page"),
         Binding("a", "review('accepted')", "Accept"),
         Binding("r", "review('rejected')", "Reject"),
-        Binding("e", "review('corrected')", "Correct"),
+        Binding("e", "review('corrected')", "Correct", tooltip="Edit the answer text"),
         Binding("n", "review('note')", "Note"),
-        Binding("u", "review('clear')", "Undo decision"),
+        Binding("u", "review('clear')", "Undo", tooltip="Clear the decision"),
     ]
 
     DEFAULT_CSS = """
@@ -108,14 +108,15 @@ class AnswerList(OptionList):
         text.append_text(confidence_chip(a.score, a.low_confidence))
         text.append("  ")
         if a.decision == "corrected" and a.corrected_text:
-            text.append(a.corrected_text, "bold")
+            text.append(one_line(a.corrected_text), "bold")
             text.append("  (was: ", palette.MUTED)
-            text.append(a.text, palette.MUTED + " strike")
+            text.append(one_line(a.text), palette.MUTED + " strike")
             text.append(")", palette.MUTED)
         else:
-            text.append(a.text, "bold" if not a.decision == "rejected" else palette.MUTED + " strike")
-        text.append("  ")
-        text.append_text(decision_chip(a.decision))
+            text.append(one_line(a.text), "bold" if a.decision != "rejected" else palette.MUTED + " strike")
+        if a.decision:
+            text.append("  ")
+            text.append_text(decision_chip(a.decision))
         text.append("\n     ")
         text.append_text(where(a.file, a.locator))
         text.append("  ")

@@ -60,7 +60,7 @@ class IndexMeter(Horizontal):
         self._refresh_label()
 
     def _refresh_label(self) -> None:
-        if not self.is_mounted:
+        if not self.children:  # not composed yet
             return
         label = self.query_one("#meter-label", Static)
         if self.summary is not None:

@@ -54,3 +54,6 @@ def band(score: float | None, low: bool) -> str:
     if low:
         return "low"
     return "firm" if score >= FIRM_FROM else "fair"
+
+BAND_FG = {"firm": "#8CC084", "fair": "#7FC4D4", "low": "bold #E58F65", "none": "#8594A3"}
+DECISION_GLYPH = {"accepted": "✔", "rejected": "✘", "corrected": "✎"}

@@ -19,7 +19,7 @@ PLACEHOLDER = "Type a question about these agreements and press Enter"
 class QuestionBar(Horizontal):
     """Posts ``QuestionBar.Asked`` with the stripped question when Enter is pressed on a non-empty line."""
 
-    BINDINGS = [Binding("escape", "leave", "To answers", show=False)]
+    BINDINGS = [Binding("escape", "leave", "To answers")]
 
     DEFAULT_CSS = """
     QuestionBar { height: 3; }
@@ -45,7 +45,7 @@ class QuestionBar(Horizontal):
         self.watch_scope(self.scope)
 
     def watch_scope(self, scope: Scope) -> None:
-        if not self.is_mounted:
+        if not self.children:  # not composed yet
             return
         chip = Text("scope: ", style=palette.MUTED, end="")
         chip.append(scope.label, "bold" if scope.is_whole else "bold #12171D on #9A7BC2")

@@ -73,7 +73,10 @@ class ScopeScreen(ModalScreen[Scope | None]):
         options = self.query_one(OptionList)
         options.clear_options()
         options.add_options([Option(self._prompt(s)) for s in self.shown])
-        here = self.shown.index(self.current) if self.current in self.shown else 0
+        if needle and len(self.shown) > 1:
+            here = 1  # the best filtered match, not "Whole folder"
+        else:
+            here = self.shown.index(self.current) if self.current in self.shown else 0
         options.highlighted = here if self.shown else None
 
     def _prompt(self, scope: Scope) -> Text:

@@ -57,7 +57,12 @@ def clause_bounds(text: str, start: int, end: int) -> tuple[int, int]:
     return left, max(right, end)
 
 
-def snippet(passage: str, start: int, end: int, words: int = 5) -> Text:
+def one_line(text: str) -> str:
+    """Runs of whitespace (line breaks included) collapsed to single spaces."""
+    return " ".join(text.split())
+
+
+def snippet(passage: str, start: int, end: int, words: int = 4) -> Text:
     """A one-line view: ``words`` words either side of the span, the span emphasised, whitespace collapsed."""
     before = " ".join(passage[:start].split()[-words:])
     after = " ".join(passage[end:].split()[:words])

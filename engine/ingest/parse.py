@@ -61,6 +61,10 @@ def _pages(
     kind: str, suffix: str, data: bytes, max_pages: int, max_bytes: int, max_seconds: float
 ) -> tuple[tuple[Page, ...], list[str]]:
     if kind == "pdf":
+        if defaults.PDF_IN_CHILD_PROCESS:
+            from engine.ingest.pdf_worker import shared_worker
+
+            return shared_worker().read(data, max_pages, max_seconds)
         return read_pdf(data, max_pages=max_pages, max_seconds=max_seconds)
     if kind == "docx":
         return read_docx(data, max_unpacked=max_bytes)

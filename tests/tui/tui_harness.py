@@ -1,0 +1,70 @@
+"""Shared helpers for the TUI tests: a fresh copy of demo_docs, the fake reader, and waiting for workers."""
+
+from __future__ import annotations
+
+import asyncio
+import functools
+import shutil
+from pathlib import Path
+
+from engine.workspace import Workspace
+from tests.fakes import FAKE_CALIBRATION, FakeReader
+from tui.app import ExcerptorApp
+
+ROOT = Path(__file__).resolve().parents[2]
+DEMO = ROOT / "demo_docs"
+SIZE = (120, 40)
+GOVERNING_LAW = "What is the governing law of the land lease?"
+
+
+def run_async(test):
+    """Run an ``async def`` test with asyncio (the suite has no async pytest plugin)."""
+
+    @functools.wraps(test)
+    def wrapper(*args, **kwargs):
+        return asyncio.run(test(*args, **kwargs))
+
+    return wrapper
+
+
+def demo_copy(base: Path) -> Path:
+    """A copy of demo_docs at ``base/demo_docs`` (its index will live in ``.excerptor`` inside it)."""
+    folder = Path(base) / "demo_docs"
+    shutil.copytree(DEMO, folder, ignore=shutil.ignore_patterns(".excerptor"))
+    return folder
+
+
+def fake_workspace(folder: Path) -> Workspace:
+    return Workspace(folder, reader=FakeReader(), calibration=FAKE_CALIBRATION)
+
+
+def build_app(folder: Path, **kwargs) -> ExcerptorApp:
+    """The real app over ``folder`` with the fake reader injected (no model is loaded)."""
+    kwargs.setdefault("export_dir", Path(folder).parent)
+    if "workspace" not in kwargs and "workspace_factory" not in kwargs:
+        kwargs["workspace"] = fake_workspace(folder)
+    return ExcerptorApp(folder, **kwargs)
+
+
+async def settle(pilot, rounds: int = 2) -> None:
+    """Let every worker finish and the screen catch up with the messages they posted."""
+    for _ in range(rounds):
+        await pilot.pause()
+        await pilot.app.workers.wait_for_complete()
+        await pilot.pause()
+
+
+async def ask(pilot, question: str, typed: bool = False) -> None:
+    """Put a question in the question box (typed key by key when ``typed``), press Enter, wait for answers."""
+    from textual.widgets import Input
+
+    box = pilot.app.desk.query_one(Input)
+    box.focus()
+    box.value = ""
+    await pilot.pause()
+    if typed:
+        await pilot.press(*question)
+    else:
+        box.value = question
+    await pilot.press("enter")
+    await settle(pilot)
