@@ -41,6 +41,24 @@ def run(reader, examples, v2: bool, threshold: float | None) -> dict:
     return scores
 
 
+def demo_page_examples() -> list:
+    """tests/data/demo_questions.jsonl as SQuAD examples whose context is the cited page's text (invented data)."""
+    from engine.ingest.parse import parse_file
+    from engine.squad_data import GoldAnswer, SquadExample
+
+    out = []
+    for line in (ROOT / "tests/data/demo_questions.jsonl").read_text(encoding="utf-8").splitlines():
+        if not line.strip():
+            continue
+        q = json.loads(line)
+        doc, _ = parse_file(ROOT / "demo_docs" / q["file"], q["file"])
+        pages = [p for p in doc.pages if (q["page"] is None or p.number == q["page"])]
+        page = next((p for p in pages if q["answer"] in p.text), pages[0] if pages else doc.pages[0])
+        start = max(0, page.text.find(q["answer"]))
+        out.append(SquadExample(q["id"], q["file"], q["question"], page.text, (GoldAnswer(q["answer"], start),), False))
+    return out
+
+
 def main() -> int:
     parser = argparse.ArgumentParser()
     parser.add_argument("--model", type=Path, default=ROOT / "models" / "reader-v1")
@@ -58,6 +76,12 @@ def main() -> int:
         report["xquad_en"][mode] = run(reader, xquad, False, None)
         print(mode, report["xquad_en"][mode], flush=True)
     reader = TransformerReader(args.model)  # the default inference path
+    report["demo_questions_given_page"] = run(reader, demo_page_examples(), False, None)
+    print("demo pages", report["demo_questions_given_page"], flush=True)
+    cuad_dev = load_examples(DATA / "dev/cuad_dev.json.gz")
+    report["cuad_dev_sample"] = run(reader, random.Random(1).sample(cuad_dev, min(args.cuad_sample, len(cuad_dev))),
+                                    True, calibration.null_margin_threshold)
+    print("cuad dev", report["cuad_dev_sample"], flush=True)
     report["xquad_en_first300_default"] = run(reader, xquad[:300], False, None)
     report["tydiqa_en_dev"] = run(reader, load_examples(DATA / "dev/tydiqa_goldp_en_dev.json.gz"), False, None)
     print("tydi dev", report["tydiqa_en_dev"], flush=True)

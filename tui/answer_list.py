@@ -17,6 +17,8 @@ from tui.spans import confidence_chip, decision_chip, one_line, snippet, where
 
 NO_ANSWER = "The folder does not seem to answer this question."
 NO_ANSWER_HINT = "Try other words, or widen the scope (w)."
+WAITING = ("Answers appear here, best first: confidence (LOW when the engine doubts it), document and page, "
+           "and a few words of context. Up/Down move; the source shows on the right.")
 
 
 class AnswerList(OptionList):
@@ -56,6 +58,10 @@ class AnswerList(OptionList):
         super().__init__(markup=False, **kwargs)
         self.answers: list = []
         self.abstained = False
+
+    def on_mount(self) -> None:
+        if not self.answers:
+            self.add_option(Option(Text(WAITING, style=palette.MUTED), disabled=True))
 
     def on_option_list_option_selected(self, event: OptionList.OptionSelected) -> None:
         event.stop()

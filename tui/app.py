@@ -59,7 +59,7 @@ class ExcerptorApp(App[int]):
             self.workspace = (workspace_factory or Workspace)(self.folder)
         self.store = store if store is not None else ReviewStore(self.folder)
         self.checklist_path = Path(checklist) if checklist is not None else DEFAULT_CHECKLIST
-        self.export_dir = Path(export_dir) if export_dir is not None else Path.cwd()
+        self.export_dir = Path(export_dir) if export_dir is not None else default_export_dir(self.folder)
         self.export_format = "csv"
         self.last_export: Path | None = None
         self.desk = DeskScreen()
@@ -164,6 +164,12 @@ class ExcerptorApp(App[int]):
     def _to_desk(self) -> None:
         while self.screen is not self.desk and len(self.screen_stack) > 1:
             self.pop_screen()
+
+
+def default_export_dir(folder: Path) -> Path:
+    """The working folder, unless it is inside the reviewed folder (an export there would be indexed)."""
+    here = Path.cwd().resolve()
+    return folder.parent if here == folder or folder in here.parents else here
 
 
 def start_process_helpers() -> None:

@@ -24,6 +24,9 @@ from tui.spans import clause_bounds, styled, where
 from tui.state import SourceSpan
 
 
+MAX_LINE_WIDGETS = 400  # a longer page (a whole .txt file) is shown in blocks of several lines
+
+
 class DocumentScreen(Screen[None]):
     """Opened from an answer or a checklist cell; Escape returns to where it was opened, which kept its state."""
 
@@ -81,17 +84,6 @@ class DocumentScreen(Screen[None]):
         self._head()
         self.query_one("#doc-body").focus()
         self.load_pages()
-
-    @work(thread=True, exclusive=True, group="pages")
-    def load_pages(self) -> None:
-        worker = get_current_worker()
-        try:
-            pages = self.workspace.pages(self.doc)
-        except (ValueError, FileNotFoundError, OSError) as error:
-            self.post_message(self.PagesFailed(str(error)))
-            return
-        if not worker.is_cancelled:
-            self.post_message(self.PagesLoaded(pages))
 
     def on_document_screen_pages_loaded(self, message: PagesLoaded) -> None:
         self.pages = message.pages
@@ -171,6 +163,17 @@ class DocumentScreen(Screen[None]):
             self.page_index = self._cited_index()
             self.refresh_bindings()
 
+    @work(thread=True, exclusive=True, group="pages")
+    def load_pages(self) -> None:
+        worker = get_current_worker()
+        try:
+            pages = self.workspace.pages(self.doc)
+        except (ValueError, FileNotFoundError, OSError) as error:
+            self.post_message(self.PagesFailed(str(error)))
+            return
+        if not worker.is_cancelled:
+            self.post_message(self.PagesLoaded(pages))
+
     @staticmethod
     def find(pages: list, needle: str) -> list[tuple[int, int, int]]:
         """Every case-insensitive literal hit of ``needle``: (page index, start, end) in reading order."""
@@ -223,9 +226,11 @@ class DocumentScreen(Screen[None]):
         lines = self.page_text.split("\n", allow_blank=True) if page.text else [Text("")]
         if not page.has_text_layer and not page.text.strip():
             lines = [Text("(no text on this page: it may be a scanned image)", style=palette.MUTED)]
+        per = max(1, -(-len(lines) // MAX_LINE_WIDGETS))  # lines per widget: 1 unless the page is very long
+        blocks = [Text("\n", end="").join(lines[i:i + per]) for i in range(0, len(lines), per)]
         body = self.query_one("#doc-body", VerticalScroll)
         await body.remove_children()
-        widgets = [Static(line if line.plain else Text(" "), markup=False, classes="doc-line") for line in lines]
+        widgets = [Static(block if block.plain else Text(" "), markup=False, classes="doc-line") for block in blocks]
         await body.mount_all(widgets)
         focus = None
         if self.focus_on == "cited" and cited is not None:
@@ -235,7 +240,7 @@ class DocumentScreen(Screen[None]):
         if focus is None:
             body.scroll_home(animate=False)
         else:
-            line = min(page.text.count("\n", 0, focus), len(widgets) - 1)
+            line = min(page.text.count("\n", 0, focus) // per, len(widgets) - 1)
             self.call_after_refresh(body.scroll_to_widget, widgets[line], center=True, animate=False)
         self._head()
 

@@ -27,7 +27,11 @@ FORMAT_NOTES = {
 
 
 class ExportScreen(ModalScreen[ExportRequest | None]):
-    """Tab moves between the formats, the path and the buttons; Enter in the path exports."""
+    """Tab moves between the formats, the path and the buttons; Enter in the path exports.
+
+    The format and the path's suffix follow each other: picking a format changes a known suffix, typing a
+    path with a known suffix picks that format.
+    """
 
     BINDINGS = [Binding("escape", "cancel", "Cancel")]
 
@@ -76,6 +80,15 @@ class ExportScreen(ModalScreen[ExportRequest | None]):
         if path.suffix.lstrip(".") in FORMATS or not path.suffix:
             path_input.value = str(path.with_suffix("." + self.fmt))
         self._note()
+
+    def on_input_changed(self, event: Input.Changed) -> None:
+        """A path ending in a known format's suffix selects that format."""
+        event.stop()
+        suffix = Path(event.value.strip()).suffix.lstrip(".").lower()
+        if suffix in FORMATS and suffix != self.fmt:
+            self.fmt = suffix
+            self.query_one(f"#fmt-{suffix}", RadioButton).value = True
+            self._note()
 
     def on_input_submitted(self, event: Input.Submitted) -> None:
         event.stop()

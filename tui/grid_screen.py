@@ -14,7 +14,6 @@ from rich.text import Text
 from textual import work
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.coordinate import Coordinate
 from textual.message import Message
 from textual.reactive import reactive
 from textual.screen import Screen
@@ -25,6 +24,7 @@ from tui import palette
 from tui.caution_note import CautionNote
 from tui.document_screen import DocumentScreen
 from tui.source_preview import SourcePreview
+from tui.spans import band_legend
 from tui.state import span_of_cell
 from tui.sweep_meter import SweepMeter
 from tui.text_prompt_screen import TextPromptScreen
@@ -371,6 +371,8 @@ class GridScreen(Screen[None]):
                  if flag]
         text.append(" · showing: ", palette.MUTED)
         text.append(", ".join(shown) or "all", "bold")
+        text.append("\n")
+        text.append_text(band_legend())
         if self.problem:
             text.append("\n" + self.problem, palette.BAND_STYLE["low"])
         head.update(text)

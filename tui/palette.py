@@ -34,7 +34,7 @@ FILE = "bold #8FC7D2"
 
 BAND_STYLE = {
     "firm": "bold #12171D on #6FA36B",
-    "fair": "bold #12171D on #5FA3B3",
+    "fair": "bold #12171D on #8FA9D6",
     "low": "bold #12171D on #E58F65",
     "none": "#8594A3",
 }
@@ -55,5 +55,5 @@ def band(score: float | None, low: bool) -> str:
         return "low"
     return "firm" if score >= FIRM_FROM else "fair"
 
-BAND_FG = {"firm": "#8CC084", "fair": "#7FC4D4", "low": "bold #E58F65", "none": "#8594A3"}
+BAND_FG = {"firm": "#8CC084", "fair": "#8FA9D6", "low": "bold #E58F65", "none": "#8594A3"}
 DECISION_GLYPH = {"accepted": "✔", "rejected": "✘", "corrected": "✎"}

@@ -84,6 +84,16 @@ def confidence_chip(score: float | None, low: bool) -> Text:
     return Text(label, style=palette.BAND_STYLE[kind], end="")
 
 
+def band_legend() -> Text:
+    """One line naming the confidence bands in their colours."""
+    out = Text("bands: ", style=palette.MUTED, end="")
+    for kind, words in (("firm", f"firm ≥{round(palette.FIRM_FROM * 100)}%"), ("fair", "fair"),
+                        ("low", "LOW"), ("none", "— none")):
+        out.append(" " + words + " ", palette.BAND_STYLE[kind] if kind != "none" else palette.MUTED)
+        out.append(" ")
+    return out
+
+
 def decision_chip(decision: str | None) -> Text:
     if decision is None:
         return Text("unreviewed", style=palette.MUTED, end="")

@@ -15,7 +15,7 @@ from tui.document_screen import DocumentScreen
 from tui.question_bar import QuestionBar
 from tui.scope_screen import ScopeScreen
 from tui.spans import text_under
-from tui.state import Scope
+from tui.state import Scope, SourceSpan
 
 
 @run_async
@@ -114,3 +114,28 @@ async def test_scope_to_document_and_subfolder_then_clear(tmp_path):
         files = {a.file for a in app.desk.query_one(AnswerList).answers}
         direct = fake_workspace(folder).ask("What is the effective date of the agreement?")
         assert files == {a.citation.file for a in direct.answers}  # oracle: unscoped engine ask
+
+
+@run_async
+async def test_a_very_long_page_is_shown_in_blocks_and_still_scrolled_to_the_span(tmp_path):
+    folder = tmp_path / "long"
+    folder.mkdir()
+    lines = [f"Line {i}: the parties agree to the ordinary terms of clause {i}." for i in range(1500)]
+    lines[1234] = "Line 1234: the Supplier's liability is capped at two hundred thousand dollars."
+    (folder / "long_terms.txt").write_text("\n".join(lines) + "\n", encoding="utf-8")
+    app = build_app(folder)
+    async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot)
+        page = fake_workspace(folder).pages("long_terms.txt")[0]
+        start = page.text.index("two hundred thousand dollars")
+        end = start + len("two hundred thousand dollars")
+        target = SourceSpan("long_terms.txt", page.number, page.locator, start, end, page.text, 0, page.text[start:end])
+        await app.push_screen(DocumentScreen(app.workspace, "long_terms.txt", target))
+        await settle(pilot)
+        screen = app.screen
+        body = screen.query_one("#doc-body")
+        assert len(body.children) <= 400 < page.text.count("\n")  # grouped (DocumentScreen.MAX_LINE_WIDGETS)
+        assert text_under(screen.page_text, palette.SPAN) == ["two hundred thousand dollars"]
+        block = next(w for w in body.children if "two hundred thousand dollars" in w.content.plain)
+        top = block.virtual_region.y
+        assert body.scroll_y <= top + block.virtual_region.height and top < body.scroll_y + body.size.height

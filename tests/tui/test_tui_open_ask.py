@@ -12,7 +12,8 @@ from pypdf import PdfReader
 
 from engine.workspace import Workspace
 from tests.fakes import FAKE_CALIBRATION, FakeReader
-from tests.tui.tui_harness import DEMO, GOVERNING_LAW, SIZE, ask, build_app, demo_copy, fake_workspace, run_async, settle
+from tests.tui.tui_harness import (DEMO, GOVERNING_LAW, SIZE, ask, build_app, demo_copy, fake_workspace,
+                                   run_async, settle)
 from textual.widgets import Input, ProgressBar, Static
 from tui import palette
 from tui.answer_list import NO_ANSWER, AnswerList

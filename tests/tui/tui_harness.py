@@ -3,8 +3,10 @@
 from __future__ import annotations
 
 import asyncio
+import atexit
 import functools
 import shutil
+import tempfile
 from pathlib import Path
 
 from engine.workspace import Workspace
@@ -27,10 +29,29 @@ def run_async(test):
     return wrapper
 
 
-def demo_copy(base: Path) -> Path:
-    """A copy of demo_docs at ``base/demo_docs`` (its index will live in ``.excerptor`` inside it)."""
+_indexed_template: list[Path] = []
+
+
+def demo_copy(base: Path, indexed: bool = True) -> Path:
+    """A copy of demo_docs at ``base/demo_docs``; its index lives in ``.excerptor`` inside it.
+
+    ``indexed``: copy a folder indexed once per test session (file times kept, so the app's refresh finds every
+    file unchanged and the tests do not parse the PDFs again).
+    """
     folder = Path(base) / "demo_docs"
-    shutil.copytree(DEMO, folder, ignore=shutil.ignore_patterns(".excerptor"))
+    if not indexed:
+        shutil.copytree(DEMO, folder, ignore=shutil.ignore_patterns(".excerptor"))
+        return folder
+    if not _indexed_template:
+        from engine.indexer import refresh_index
+
+        home = Path(tempfile.mkdtemp(prefix="excerptor-tui-"))
+        atexit.register(shutil.rmtree, home, True)
+        template = home / "demo_docs"
+        shutil.copytree(DEMO, template, ignore=shutil.ignore_patterns(".excerptor"))
+        refresh_index(template)
+        _indexed_template.append(template)
+    shutil.copytree(_indexed_template[0], folder)
     return folder
 
 
@@ -46,12 +67,16 @@ def build_app(folder: Path, **kwargs) -> ExcerptorApp:
     return ExcerptorApp(folder, **kwargs)
 
 
-async def settle(pilot, rounds: int = 2) -> None:
-    """Let every worker finish and the screen catch up with the messages they posted."""
+async def settle(pilot, rounds: int = 5) -> None:
+    """Let the workers finish and the screen catch up with the messages they posted (which may start more)."""
     for _ in range(rounds):
         await pilot.pause()
-        await pilot.app.workers.wait_for_complete()
-        await pilot.pause()
+        # Not the export dialog flow: it waits for the user, by design.
+        busy = [w for w in pilot.app.workers if w.group != "export" and not w.is_finished]
+        if not busy:
+            break
+        await pilot.app.workers.wait_for_complete(busy)
+    await pilot.pause()
 
 
 async def ask(pilot, question: str, typed: bool = False) -> None:
