@@ -127,7 +127,7 @@ def run_ask(args) -> int:
 def run_open(args) -> int:
     from tui.app import run_app
 
-    return run_app(Path(args.folder))
+    return run_app(Path(args.folder), Path(args.checklist) if args.checklist else None)
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -139,6 +139,7 @@ def build_parser() -> argparse.ArgumentParser:
     sub = parser.add_subparsers(dest="command", required=True)
     p = sub.add_parser("open", help="open the review app on FOLDER (same as `excerptor FOLDER`)")
     p.add_argument("folder")
+    p.add_argument("--checklist", help="checklist for the grid (default: checklists/commercial.checklist)")
     p.set_defaults(handler=run_open)
     p = sub.add_parser("index", help="index or refresh FOLDER")
     p.add_argument("folder")

@@ -51,7 +51,6 @@ class ExcerptorApp(App[int]):
         export_dir: Path | str | None = None,
     ) -> None:
         super().__init__()
-        start_process_helpers()
         self.folder = Path(folder).resolve()
         if workspace is not None:
             self.workspace = workspace
@@ -170,20 +169,6 @@ def default_export_dir(folder: Path) -> Path:
     """The working folder, unless it is inside the reviewed folder (an export there would be indexed)."""
     here = Path.cwd().resolve()
     return folder.parent if here == folder or folder in here.parents else here
-
-
-def start_process_helpers() -> None:
-    """Start multiprocessing's resource tracker now, while ``sys.stderr`` is still the real one.
-
-    While the app runs, Textual replaces ``sys.stderr`` with an object whose ``fileno()`` is -1; the first child
-    process started after that (the engine reads PDFs in one) would fail with "bad value(s) in fds_to_keep".
-    """
-    try:
-        from multiprocessing import resource_tracker
-
-        resource_tracker.ensure_running()
-    except Exception:  # noqa: BLE001 - best effort: without it only child processes are affected
-        pass
 
 
 def help_sections() -> list[tuple[str, list[tuple[str, str]]]]:

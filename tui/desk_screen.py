@@ -41,14 +41,14 @@ class DeskScreen(Screen[None]):
     """The app's home screen. ``self.app`` is a tui.app.ExcerptorApp (workspace, store)."""
 
     BINDINGS = [
-        Binding("slash", "ask", "Ask"),
-        Binding("s", "scope", "Scope"),
-        Binding("w", "clear_scope", "Whole folder"),
-        Binding("h", "history", "History"),
-        Binding("x", "export", "Export"),
-        Binding("g", "grid", "Grid", tooltip="Checklist grid"),
-        Binding("f", "problems", "Files", tooltip="Files that could not be read"),
-        Binding("ctrl+r", "reindex", "Re-index", show=False),
+        Binding("slash", "ask", "Ask", tooltip="Put the cursor in the question box"),
+        Binding("s", "scope", "Scope", tooltip="Limit the next questions to one document or subfolder"),
+        Binding("w", "clear_scope", "Whole folder", tooltip="Clear the scope: ask the whole folder"),
+        Binding("h", "history", "History", tooltip="Reopen an earlier question with its decisions"),
+        Binding("x", "export", "Export", tooltip="Export the answer log (CSV, JSONL, MD, XLSX)"),
+        Binding("g", "grid", "Grid", tooltip="Checklist grid: documents × checklist questions"),
+        Binding("f", "problems", "Files", tooltip="Files that could not be read, with the reason"),
+        Binding("ctrl+r", "reindex", "Re-index", show=False, tooltip="Re-index: pick up added, changed, removed files"),
     ]
 
     DEFAULT_CSS = """
@@ -133,6 +133,7 @@ class DeskScreen(Screen[None]):
     def watch_scope(self, scope: Scope) -> None:
         if self.children:
             self.query_one(QuestionBar).scope = scope
+            self.refresh_bindings()
 
     def on_desk_screen_index_step(self, message: IndexStep) -> None:
         self.query_one(IndexMeter).progress(message.done, message.total, message.current)
@@ -224,7 +225,6 @@ class DeskScreen(Screen[None]):
 
     def action_clear_scope(self) -> None:
         self.scope = Scope()
-        self.refresh_bindings()
 
     def action_history(self) -> None:
         self.app.action_history()

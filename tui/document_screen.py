@@ -31,13 +31,13 @@ class DocumentScreen(Screen[None]):
     """Opened from an answer or a checklist cell; Escape returns to where it was opened, which kept its state."""
 
     BINDINGS = [
-        Binding("escape", "back", "Back"),
+        Binding("escape", "back", "Back", tooltip="Back to the answers or the grid (closes the find box first)"),
         Binding("right_square_bracket", "page(1)", "Next page"),
         Binding("left_square_bracket", "page(-1)", "Previous page"),
-        Binding("slash", "find", "Find"),
+        Binding("slash", "find", "Find", tooltip="Find in this document (case-insensitive)"),
         Binding("n", "match(1)", "Next match"),
         Binding("N", "match(-1)", "Previous match"),
-        Binding("c", "cited", "Cited span"),
+        Binding("c", "cited", "Cited span", tooltip="Back to the cited span"),
     ]
 
     DEFAULT_CSS = """

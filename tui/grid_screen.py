@@ -60,16 +60,16 @@ class GridScreen(Screen[None]):
     """Installed once by the app, so a running sweep survives leaving the screen."""
 
     BINDINGS = [
-        Binding("escape", "back", "Desk"),
+        Binding("escape", "back", "Desk", tooltip="Back to the desk (a running sweep goes on)"),
         Binding("p", "sweep", "Sweep", tooltip="Run, pause or resume the checklist sweep"),
         Binding("l", "toggle('low_only')", "Low", tooltip="Show only low-confidence or unanswered cells"),
         Binding("v", "toggle('unreviewed_only')", "Unreviewed", tooltip="Show only cells without a decision"),
         Binding("o", "open", "Open", tooltip="Open the document at the cited page"),
         Binding("a", "review('accepted')", "Accept"),
         Binding("r", "review('rejected')", "Reject"),
-        Binding("e", "review('corrected')", "Correct"),
+        Binding("e", "review('corrected')", "Correct", tooltip="Edit the cell's answer text"),
         Binding("n", "review('note')", "Note"),
-        Binding("u", "review('clear')", "Undo"),
+        Binding("u", "review('clear')", "Undo", tooltip="Clear the decision"),
     ]
 
     DEFAULT_CSS = """

@@ -41,7 +41,7 @@ def sections_text(sections: list[tuple[str, list[tuple[str, str]]]]) -> Text:
     for title, rows in sections:
         text.append(title + "\n", "bold underline")
         for keys, what in rows:
-            text.append(f"  {key_label(keys):<18}", "bold #D9A441")
+            text.append(f"  {key_label(keys):<19} ", "bold #D9A441")
             text.append(what + "\n")
         text.append("\n")
     return text
@@ -65,7 +65,7 @@ class HelpScreen(ModalScreen[None]):
     DEFAULT_CSS = """
     HelpScreen { align: center middle; }
     HelpScreen > VerticalScroll {
-        width: 80; height: 90%; padding: 0 2; border: round $accent; background: $surface;
+        width: 92; height: 90%; padding: 0 2; border: round $accent; background: $surface;
     }
     """
 

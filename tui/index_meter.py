@@ -33,6 +33,18 @@ class IndexMeter(Horizontal):
     def on_mount(self) -> None:
         self._refresh_label()
 
+    def watch_done(self) -> None:
+        self._refresh_label()
+
+    def watch_total(self) -> None:
+        self._refresh_label()
+
+    def watch_current(self) -> None:
+        self._refresh_label()
+
+    def watch_summary(self) -> None:
+        self._refresh_label()
+
     def start(self) -> None:
         self.summary = None
         self.done, self.total, self.current = 0, None, ""
@@ -46,18 +58,6 @@ class IndexMeter(Horizontal):
     def finish(self, summary: Text) -> None:
         self.add_class("-idle")
         self.summary = summary
-
-    def watch_done(self) -> None:
-        self._refresh_label()
-
-    def watch_total(self) -> None:
-        self._refresh_label()
-
-    def watch_current(self) -> None:
-        self._refresh_label()
-
-    def watch_summary(self) -> None:
-        self._refresh_label()
 
     def _refresh_label(self) -> None:
         if not self.children:  # not composed yet

@@ -102,7 +102,7 @@ async def test_ask_shows_ranked_answers_and_their_source(tmp_path):
     app = build_app(folder)
     async with app.run_test(size=SIZE) as pilot:
         await settle(pilot)
-        await ask(pilot, GOVERNING_LAW, typed=True)
+        await ask(pilot, GOVERNING_LAW, typed=len("land lease?"))
         shown = app.desk.query_one(AnswerList).answers
         # Oracle: the same question asked directly of a second workspace over the same index.
         direct = fake_workspace(folder).ask(GOVERNING_LAW)

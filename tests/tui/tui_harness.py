@@ -79,17 +79,18 @@ async def settle(pilot, rounds: int = 5) -> None:
     await pilot.pause()
 
 
-async def ask(pilot, question: str, typed: bool = False) -> None:
-    """Put a question in the question box (typed key by key when ``typed``), press Enter, wait for answers."""
+async def ask(pilot, question: str, typed: int = 0) -> None:
+    """Put a question in the question box (its last ``typed`` characters typed key by key), press Enter and wait
+    for the answers. (Each simulated key press costs a screen refresh, so tests type only a few.)"""
     from textual.widgets import Input
 
     box = pilot.app.desk.query_one(Input)
     box.focus()
     box.value = ""
     await pilot.pause()
-    if typed:
-        await pilot.press(*question)
-    else:
-        box.value = question
+    cut = len(question) - typed
+    box.value = question[:cut]
+    box.cursor_position = cut
+    await pilot.press(*question[cut:])
     await pilot.press("enter")
     await settle(pilot)
