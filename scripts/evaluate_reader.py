@@ -65,36 +65,53 @@ def main() -> int:
     parser.add_argument("--out", type=Path, default=None)
     parser.add_argument("--cuad-sample", type=int, default=150)
     parser.add_argument("--skip-squad-full", action="store_true")
+    parser.add_argument("--squad-sample", type=int, default=0, help="random N questions of each SQuAD dev file (0 = all)")
+    parser.add_argument("--only", nargs="*", default=None, help="sections to run (default: all)")
     args = parser.parse_args()
     calibration = load_calibration(args.model)
     report: dict = {"model": str(args.model.relative_to(ROOT)), "threshold": calibration.null_margin_threshold,
                     "default_quantize": calibration.default_quantize}
     xquad = load_examples(DATA / "test/xquad_en.json.gz")
     report["xquad_en"] = {}
-    for mode in QUANTIZE_CHOICES:
+    wanted = (lambda name: args.only is None or name in args.only)
+    for mode in (QUANTIZE_CHOICES if wanted("variants") else ()):
         reader = TransformerReader(args.model, quantize=mode)
         report["xquad_en"][mode] = run(reader, xquad, False, None)
         print(mode, report["xquad_en"][mode], flush=True)
     reader = TransformerReader(args.model)  # the default inference path
-    report["demo_questions_given_page"] = run(reader, demo_page_examples(), False, None)
-    print("demo pages", report["demo_questions_given_page"], flush=True)
-    cuad_dev = load_examples(DATA / "dev/cuad_dev.json.gz")
-    report["cuad_dev_sample"] = run(reader, random.Random(1).sample(cuad_dev, min(args.cuad_sample, len(cuad_dev))),
-                                    True, calibration.null_margin_threshold)
-    print("cuad dev", report["cuad_dev_sample"], flush=True)
-    report["xquad_en_first300_default"] = run(reader, xquad[:300], False, None)
-    report["tydiqa_en_dev"] = run(reader, load_examples(DATA / "dev/tydiqa_goldp_en_dev.json.gz"), False, None)
-    print("tydi dev", report["tydiqa_en_dev"], flush=True)
-    if not args.skip_squad_full:
-        report["squad_v1.1_dev"] = run(reader, load_examples(DATA / "test/squad_dev_v1.1.json.gz"), False, None)
+    if wanted("demo"):
+        report["demo_questions_given_page"] = run(reader, demo_page_examples(), False, None)
+        print("demo pages", report["demo_questions_given_page"], flush=True)
+    if wanted("cuad"):
+        cuad_dev = load_examples(DATA / "dev/cuad_dev.json.gz")
+        report["cuad_dev_sample"] = run(reader, random.Random(1).sample(cuad_dev, min(args.cuad_sample, len(cuad_dev))),
+                                        True, calibration.null_margin_threshold)
+        print("cuad dev", report["cuad_dev_sample"], flush=True)
+    if wanted("xquad300"):
+        report["xquad_en_first300_default"] = run(reader, xquad[:300], False, None)
+    if wanted("tydi"):
+        report["tydiqa_en_dev"] = run(reader, load_examples(DATA / "dev/tydiqa_goldp_en_dev.json.gz"), False, None)
+        print("tydi dev", report["tydiqa_en_dev"], flush=True)
+
+    def squad(name: str) -> list:
+        items = load_examples(DATA / name)
+        if args.squad_sample:
+            items = random.Random(2).sample(items, min(args.squad_sample, len(items)))
+        return items
+
+    if wanted("squad") and not args.skip_squad_full:
+        report["squad_v1.1_dev"] = run(reader, squad("test/squad_dev_v1.1.json.gz"), False, None)
         print("squad v1.1", report["squad_v1.1_dev"], flush=True)
-        v2 = load_examples(DATA / "test/squad_dev_v2.0.json.gz")
-        report["squad_v2.0_dev"] = run(reader, v2, True, calibration.null_margin_threshold)
+        report["squad_v2.0_dev"] = run(reader, squad("test/squad_dev_v2.0.json.gz"), True,
+                                       calibration.null_margin_threshold)
         print("squad v2.0", report["squad_v2.0_dev"], flush=True)
-    cuad = load_examples(DATA / "test/cuad_test.json.gz")
-    sample = random.Random(0).sample(cuad, min(args.cuad_sample, len(cuad)))
-    report["cuad_test_sample"] = run(reader, sample, True, calibration.null_margin_threshold)
-    print("cuad", report["cuad_test_sample"], flush=True)
+    if wanted("cuad"):
+        cuad = load_examples(DATA / "test/cuad_test.json.gz")
+        sample = random.Random(0).sample(cuad, min(args.cuad_sample, len(cuad)))
+        report["cuad_test_sample"] = run(reader, sample, True, calibration.null_margin_threshold)
+        print("cuad", report["cuad_test_sample"], flush=True)
+    report["squad_sample"] = args.squad_sample or "all"
+    report["cuad_sample"] = args.cuad_sample
     out = args.out or args.model / "eval_report.json"
     out.write_text(json.dumps(report, indent=2) + "\n", encoding="utf-8")
     print(f"wrote {out}")
