@@ -42,7 +42,8 @@ def rank_answers(
         raise ValueError(f"top_n must be >= 1 (got {top_n})")
     if len(passages) != len(readings):
         raise ValueError(f"one reading per passage is needed (got {len(passages)} and {len(readings)})")
-    bm25_max = max((p.bm25 for p in passages), default=0.0) or 1.0
+    bm25_max = max((p.bm25 for p in passages), default=0.0)
+    bm25_max = bm25_max if bm25_max > 0 else float("inf")  # no positive BM25 score: retrieval adds nothing
     candidates = []
     for scored, reading in zip(passages, readings):
         for span in reading.spans:
@@ -103,7 +104,7 @@ class Answerer:
     def retrieve(self, question: str, doc: str | None = None, subfolder: str | None = None,
                  k: int | None = None) -> list[ScoredPassage]:
         hits = self.index.search(question, k or self.top_k, doc=doc, subfolder=subfolder)
-        return [ScoredPassage(passage, float(score)) for passage, score in hits if score > 0]
+        return [ScoredPassage(passage, float(score)) for passage, score in hits]
 
     def ask(self, question: str, *, top_n: int = defaults.TOP_N_ANSWERS, doc: str | None = None,
             subfolder: str | None = None) -> AskResult:

@@ -345,10 +345,17 @@ class LoadedIndex:
     def search(
         self, query: str, k: int, doc: str | None = None, subfolder: str | None = None
     ) -> list[tuple[Passage, float]]:
-        """Top ``k`` passages for ``query`` by BM25 (positive scores only), best first, within the scope."""
+        """Top ``k`` passages for ``query`` by BM25, best first, within the scope (see the tiny-corpus note)."""
         candidates = self.scope_positions(doc, subfolder)
         hits = self.bm25.top_k(tokenize_for_search(query), k, candidate_ids=candidates)
-        return self._passages(hits)
+        # In a tiny corpus rank-bm25's epsilon floor can leave every matching passage with a score <= 0 (terms in
+        # more than half the passages); then the passages that share a term with the query are still returned.
+        positive = [(pos, score) for pos, score in hits if score > 0]
+        if not positive:
+            positive = [(pos, score) for pos, score in self.bm25.top_k(tokenize_for_search(query), k,
+                                                                        candidate_ids=candidates, drop_zero=False)
+                        if score != 0]
+        return self._passages(positive)
 
     def _passages(self, hits: Sequence[tuple[int, float]]) -> list[tuple[Passage, float]]:
         found = self.store.get_passages([int(self.passage_ids[pos]) for pos, _ in hits])
@@ -361,7 +368,9 @@ class LoadedIndex:
 
 
 def open_index(folder: Path) -> LoadedIndex:
-    """Open FOLDER's index for searching. Rebuilds the BM25 file from the store if it is missing or damaged.
+    """Open FOLDER's index for searching. Rebuilds the BM25 file from the store if it is missing or damaged,
+    or if the last refresh stopped before its BM25 rebuild (each stored file is a complete transaction, so the
+    store is always a consistent view; a stale BM25 file could only hide its newer passages).
 
     Raises FileNotFoundError when the folder has never been indexed.
     """
@@ -372,7 +381,7 @@ def open_index(folder: Path) -> LoadedIndex:
     store = IndexStore(db)
     try:
         loaded = None
-        if _bm25_file_ok(store, idir):
+        if _bm25_file_ok(store, idir) and store.get_meta("dirty") != "1":
             try:
                 loaded = _load_bm25(idir / str(store.get_meta("bm25_file")))
             except (ValueError, KeyError):

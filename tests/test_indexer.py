@@ -227,10 +227,11 @@ def test_interrupted_rebuild_leaves_previous_index_usable(fake, folder, monkeypa
     monkeypatch.setattr(indexer, "_walk", fake.walk)
     monkeypatch.setattr(indexer, "_parse", fake.parse)
     monkeypatch.setattr(indexer, "_split", fake.split)
-    with open_index(folder) as idx:
-        assert idx.stale and idx.generation == 1
-        hits = idx.search("terminate", 10)  # the deleted document's passages are simply absent
+    with open_index(folder) as idx:  # the interrupted refresh left the store complete: BM25 is rebuilt on open
+        assert not idx.stale and idx.generation == 2
+        hits = idx.search("terminate", 10)  # the deleted document's passages are gone
         assert [p for p, _ in hits] == [p for p, _ in before if p.doc_path != "leases/warehouse.txt"]
+        assert idx.search("arbitration", 3)[0][0].doc_path == "new.txt"
     report = refresh_index(folder)
     assert report.indexed == () and report.removed == ()  # the store already had the changes
     with open_index(folder) as idx:
