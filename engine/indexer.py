@@ -15,6 +15,7 @@ position -> document maps, so it stays self-consistent even if the store moved o
 
 from __future__ import annotations
 
+import contextlib
 import dataclasses
 import hashlib
 import time
@@ -30,7 +31,7 @@ from engine.index_store import IndexStore, StoredProblem
 from engine.text_tokens import tokenize_for_search
 from engine.types import Document, IngestProblem, Passage
 
-__all__ = ["IndexProgress", "IndexReport", "LoadedIndex", "index_dir", "open_index", "refresh_index"]
+__all__ = ["IndexProgress", "IndexReport", "LoadedIndex", "index_dir", "open_index", "refresh_index", "refresh_lock"]
 
 
 @dataclass(frozen=True)
@@ -233,6 +234,25 @@ class _Run:
         self.store.clear_problems(stale)
 
 
+@contextlib.contextmanager
+def refresh_lock(idir: Path) -> Iterator[None]:
+    """Hold an exclusive advisory lock on IDIR/refresh.lock: two refreshes of one folder run one after the other.
+
+    Where ``fcntl`` is missing (Windows) this is a no-op; the BM25 switch-over stays atomic either way.
+    """
+    try:
+        import fcntl
+    except ImportError:  # pragma: no cover - not POSIX
+        yield
+        return
+    with open(idir / "refresh.lock", "a+b") as handle:
+        fcntl.flock(handle.fileno(), fcntl.LOCK_EX)
+        try:
+            yield
+        finally:
+            fcntl.flock(handle.fileno(), fcntl.LOCK_UN)
+
+
 def refresh_index(
     folder: Path,
     progress: Callable[[IndexProgress], None] | None = None,
@@ -246,7 +266,7 @@ def refresh_index(
     idir = index_dir(folder)
     idir.mkdir(exist_ok=True)
     stopped = False
-    with IndexStore(idir / defaults.INDEX_DB_NAME) as store:
+    with refresh_lock(idir), IndexStore(idir / defaults.INDEX_DB_NAME) as store:
         run = _Run(store)
         walk_problems: list[IngestProblem] = []
         prefix = defaults.INDEX_DIR_NAME + "/"

@@ -6,7 +6,7 @@ import pytest
 from engine.calibration import Calibration, load_calibration
 from engine.evaluation import Prediction
 from engine.squad_data import GoldAnswer, SquadExample
-from engine.training.calibrate import best_threshold
+from engine.training.calibrate import best_threshold, budget_threshold
 
 
 def ex(qid, answer):
@@ -27,6 +27,28 @@ def test_threshold_separates_answerable_from_unanswerable():
     # Any threshold in [-1, 2) answers a and b and abstains on c and d: v2.0 F1 = 100 (hand-computed).
     assert -1.0 <= threshold < 2.0
     assert f1 == pytest.approx(100.0)
+
+
+def test_budget_threshold_abstains_most_within_the_answerable_budget():
+    examples = [ex("a", "ninety days"), ex("b", "Oregon"), ex("c", "Lot 7"), ex("d", "Lot 9"),
+                ex("n1", None), ex("n2", None)]
+    predictions = {
+        "a": Prediction("ninety days", "ninety days", 5.0, 1.0),  # margin -4, F1 1
+        "b": Prediction("Oregon", "Oregon", 3.0, 2.0),  # margin -1, F1 1
+        "c": Prediction("Lot 7", "Lot 7", 1.0, 1.5),  # margin 0.5, F1 1
+        "d": Prediction("Lot 9", "Lot 9", 0.0, 3.0),  # margin 3, F1 1
+        "n1": Prediction("x", "x", 0.0, 2.0),  # margin 2
+        "n2": Prediction("y", "y", 0.0, 5.0),  # margin 5
+    }
+    # Hand-computed: answering everything gives HasAns F1 100. A 25-point budget lets one answerable question
+    # go, and the lowest threshold that keeps three of four is t = 0.5 (abstains on d, n1 and n2: 2 of 2 NoAns).
+    result = budget_threshold(predictions, examples, budget=25.0)
+    assert result == {"threshold": 0.5, "has_ans_f1_all": 100.0, "has_ans_f1": 75.0, "no_ans_abstained": 100.0}
+    # No budget: the threshold must keep every answerable question, t = 3 (abstains on n2 only).
+    strict = budget_threshold(predictions, examples, budget=0.0)
+    assert strict["threshold"] == 3.0 and strict["no_ans_abstained"] == 50.0
+    with pytest.raises(ValueError, match=r"got -1"):
+        budget_threshold(predictions, examples, budget=-1)
 
 
 def test_calibration_defaults_and_confidence_curve(tmp_path):

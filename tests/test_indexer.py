@@ -264,3 +264,22 @@ def test_real_ingest_if_available(folder):
         # idf log((4 - 2 + 0.5) / (2 + 0.5)) is 0 — Robertson & Zaragoza (2009) IDF as in rank-bm25)
         assert idx.search("landlord terminate", 5, doc="warehouse.txt")[0][0].doc_path == "leases/warehouse.txt"
         assert idx.search("landlord", 5, subfolder="supply") == []
+
+
+def test_a_second_refresh_waits_for_the_first(fake, folder):
+    """Two refreshes of one folder never write BM25 generations at the same time: the lock serialises them."""
+    import threading
+
+    from engine.indexer import refresh_lock
+
+    idir = folder / defaults.INDEX_DIR_NAME
+    idir.mkdir()
+    reports = []
+    with refresh_lock(idir):  # stands in for a refresh already running in another process
+        worker = threading.Thread(target=lambda: reports.append(refresh_index(folder)))
+        worker.start()
+        worker.join(timeout=0.5)
+        assert worker.is_alive() and reports == []
+    worker.join(timeout=30)
+    assert len(reports) == 1 and len(reports[0].indexed) == 4
+    assert [p.name for p in idir.glob("*.npz")] == ["bm25-000001.npz"]

@@ -73,3 +73,26 @@ def test_inference_windows_cover_the_context_with_stride(tokenizer):
     assert min(a for a, _ in spans) == 0 and max(b for _, b in spans) == len(context)
     with pytest.raises(ValueError, match=r"\(got"):
         build_windows(tokenizer, [("q", "c")], max_length=128, stride=100)
+
+
+def test_same_title_negatives_pair_a_question_with_an_answer_free_paragraph():
+    from engine.training.features import same_title_negatives
+
+    # Invented article of three paragraphs; only the second holds the answer to q1, the third repeats it.
+    p1 = "The harbour bridge opened in 1932 after eight years of work."
+    p2 = "Its toll was six pence for a car and three pence for a horse."
+    p3 = "A car still paid six pence in 1960."
+    items = [
+        SquadExample("q1", "Bridge", "What was the toll for a car?", p2, (GoldAnswer("six pence", p2.index("six")),), False),
+        SquadExample("q2", "Bridge", "When did it open?", p1, (GoldAnswer("1932", p1.index("1932")),), False),
+        SquadExample("q3", "Bridge", "What did a car pay in 1960?", p3, (GoldAnswer("six pence", p3.index("six")),), False),
+    ]
+    negatives = same_title_negatives(items, random.Random(0), rate=1.0)
+    by_question = {n.qid: n for n in negatives}
+    assert all(n.is_impossible and n.answers == () for n in negatives)
+    # q1's answer text occurs in p3, so its only answer-free partner is p1.
+    assert by_question["q1#t"].context == p1
+    assert by_question["q2#t"].context in (p2, p3)
+    assert same_title_negatives(items, random.Random(0), rate=0.0) == []
+    with pytest.raises(ValueError, match=r"got 1.5"):
+        same_title_negatives(items, random.Random(0), rate=1.5)

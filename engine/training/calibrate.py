@@ -1,9 +1,10 @@
 """Tune, on dev data only, what the shipped reader needs besides its weights.
 
 - quantisation: the fastest int8 variant whose dev F1 is within 1.5 of fp32 (TyDi-en dev);
-- the no-answer margin threshold: maximises SQuAD v2.0 F1 on a dev mix of answerable and unanswerable pairs
-  (TyDi-en dev with its own paragraph, the same question against another question's paragraph, and CUAD dev
-  slices);
+- the no-answer margin threshold: the lowest (most abstaining) margin whose answerable-question F1 on a dev mix
+  stays within HASANS_F1_BUDGET of answering everything. The mix: TyDi-en dev with its own paragraph, the same
+  question against the BM25-nearest other paragraph (a topic-near negative), and CUAD dev slices. The threshold
+  that maximises v2.0 F1 on the mix is reported beside it;
 - the fusion weight mu: maximises top-answer F1 when the 440 TyDi-en dev paragraphs form one BM25 corpus;
 - the confidence curve: a logistic fit of "top answer has F1 >= 0.5" on the margin.
 No test/ file is read here.
@@ -11,6 +12,7 @@ No test/ file is read here.
 
 from __future__ import annotations
 
+import json
 import random
 import time
 from dataclasses import replace
@@ -28,20 +30,62 @@ from engine.training.features import expand_examples
 from engine.types import Passage
 
 MAX_F1_LOSS = 1.5
+# Answerable-question F1 we accept to lose to abstention, on dev. Below the 5-point goal on SQuAD v2.0 to leave
+# room for the dev-to-test shift; a design choice with no outside source.
+HASANS_F1_BUDGET = 4.0
 
 
 def dev_mix(data_dir: Path, rng: random.Random, cuad_limit: int = 400) -> list[SquadExample]:
     tydi = load_examples(data_dir / "dev/tydiqa_goldp_en_dev.json.gz")
-    contexts = [e.context for e in tydi]
-    mismatched = []
-    for k, e in enumerate(tydi):
-        other = contexts[(k + 1 + rng.randrange(len(contexts) - 1)) % len(contexts)]
-        if other != e.context:
-            mismatched.append(SquadExample(e.qid + "#x", e.title, e.question, other, (), True))
     cuad = load_examples(data_dir / "dev/cuad_dev.json.gz")
     rng.shuffle(cuad)
     sliced = expand_examples(cuad[:cuad_limit], rng, negatives_per_example=0.5)
-    return tydi + mismatched + sliced
+    return tydi + topic_near_negatives(tydi) + sliced
+
+
+def topic_near_negatives(examples: list[SquadExample]) -> list[SquadExample]:
+    """Each question against the BM25-best paragraph of the others that holds none of its gold answers."""
+    contexts = sorted({e.context for e in examples})
+    index = Bm25Index.build([tokenize_for_search(c) for c in contexts])
+    out = []
+    for e in examples:
+        golds = [a.text.casefold() for a in e.answers]
+        for pos, _ in index.top_k(tokenize_for_search(e.question), 10):
+            other = contexts[pos]
+            if other != e.context and not any(g in other.casefold() for g in golds):
+                out.append(SquadExample(e.qid + "#x", e.title, e.question, other, (), True))
+                break
+    return out
+
+
+def budget_threshold(predictions, examples, budget: float = HASANS_F1_BUDGET) -> dict:
+    """The lowest margin threshold t (abstain when null - best > t) with HasAns F1(t) >= HasAns F1(no rule) - budget.
+
+    HasAns F1(t) = mean over answerable questions of F1 if margin <= t else 0; it never falls as t rises, so the
+    lowest such t abstains most. Returns t, both HasAns F1 values and the share of unanswerable questions abstained.
+    """
+    if budget < 0:
+        raise ValueError(f"budget must be >= 0 (got {budget})")
+    answerable, unanswerable = [], []
+    for e in examples:
+        p = predictions[e.qid]
+        if e.answers:
+            answerable.append((p.null_margin, max(f1_v1(p.span_text, a.text) for a in e.answers)))
+        else:
+            unanswerable.append(p.null_margin)
+    if not answerable:
+        raise ValueError(f"budget_threshold needs answerable questions (got {len(examples)} unanswerable)")
+    full = 100.0 * sum(f for _, f in answerable) / len(answerable)
+    candidates = sorted({m for m, _ in answerable if np.isfinite(m)} | {m for m in unanswerable if np.isfinite(m)})
+    chosen, kept = max(candidates, default=0.0) + 1.0, full
+    for t in candidates:
+        f1 = 100.0 * sum(f for m, f in answerable if m <= t) / len(answerable)
+        if f1 >= full - budget:
+            chosen, kept = t, f1
+            break
+    abstained = sum(1 for m in unanswerable if m > chosen) / len(unanswerable) if unanswerable else 0.0
+    return {"threshold": float(chosen), "has_ans_f1_all": round(full, 2), "has_ans_f1": round(kept, 2),
+            "no_ans_abstained": round(100.0 * abstained, 2)}
 
 
 def best_threshold(predictions, examples) -> tuple[float, float]:
@@ -122,13 +166,17 @@ def calibrate(model_dir: Path, data_dir: Path, seed: int = 7, log=print) -> dict
     reader = TransformerReader(model_dir, quantize=chosen)
     mix = dev_mix(data_dir, rng)
     predictions = predict_examples(reader, mix, threshold=None)
-    threshold, v2_f1 = best_threshold(predictions, mix)
-    log(f"no-answer threshold {threshold:.3f} (dev mix v2.0 F1 {v2_f1:.2f} on {len(mix)} questions)")
+    best_v2, v2_f1 = best_threshold(predictions, mix)
+    budget = budget_threshold(predictions, mix)
+    threshold = budget["threshold"]
+    log(f"no-answer threshold {threshold:.3f} ({json.dumps(budget)}); the best dev-mix v2.0 F1 would be "
+        f"{v2_f1:.2f} at {best_v2:.3f}, on {len(mix)} questions")
     mu, grid, slope, intercept = fusion_and_confidence(reader, data_dir)
     log(f"fusion weight mu={mu} (grid F1 {grid}); confidence = sigmoid({slope:.3f} m + {intercept:.3f})")
     calibration = Calibration(threshold, mu, slope, intercept, chosen)
     return {"calibration": calibration, "quantize_variants": variants, "fusion_grid_f1": grid,
-            "dev_mix_v2_f1": round(v2_f1, 2), "dev_mix_size": len(mix)}
+            "dev_mix_v2_f1": round(v2_f1, 2), "dev_mix_best_v2_threshold": round(best_v2, 3),
+            "dev_mix_budget": budget, "dev_mix_size": len(mix)}
 
 
 def with_threshold(calibration: Calibration, threshold: float) -> Calibration:

@@ -75,6 +75,37 @@ def expand_examples(
     return out
 
 
+def same_title_negatives(
+    examples: Sequence[SquadExample], rng: random.Random, rate: float
+) -> list[SquadExample]:
+    """Unanswerable pairs: a question put with another paragraph of the same article (same title).
+
+    About ``rate`` of the answerable questions get one. A paragraph that contains any gold answer text
+    (case-folded) is never used, so the pair has no answer; the topic still matches, which makes these harder
+    than random negatives (the idea behind SQuAD 2.0's unanswerable questions, Rajpurkar et al., 2018).
+    """
+    if not 0.0 <= rate <= 1.0:
+        raise ValueError(f"rate must be in [0, 1] (got {rate})")
+    by_title: dict[str, list[str]] = {}
+    for ex in examples:
+        contexts = by_title.setdefault(ex.title, [])
+        if not contexts or contexts[-1] != ex.context:
+            contexts.append(ex.context)
+    out: list[SquadExample] = []
+    for ex in examples:
+        if ex.is_impossible or not ex.answers or rng.random() >= rate:
+            continue
+        others = [c for c in by_title.get(ex.title, ()) if c != ex.context and len(c) <= LONG_CONTEXT_CHARS]
+        rng.shuffle(others)
+        golds = [a.text.casefold() for a in ex.answers]
+        for other in others[:5]:
+            folded = other.casefold()
+            if not any(g in folded for g in golds):
+                out.append(SquadExample(f"{ex.qid}#t", ex.title, ex.question, other, (), True))
+                break
+    return out
+
+
 def build_train_windows(
     tokenizer,
     examples: Sequence[SquadExample],

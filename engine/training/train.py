@@ -32,6 +32,7 @@ class TrainConfig:
     cuad_negative_limit: int = 2500  # CUAD unanswerable questions kept (each gives negative slices)
     long_negatives_per_example: float = 0.3
     synthetic_windows: int = 12000
+    same_title_negative_rate: float = 0.0  # share of general questions also paired with another paragraph
     seed: int = 13
     max_length: int = 256
     stride: int = 96
@@ -68,7 +69,7 @@ def base_encoder_dir(config: TrainConfig) -> Path:
 def assemble_examples(config: TrainConfig, rng: random.Random):
     """The training mix: general QA, CUAD slices and synthetic contract questions. Returns (examples, counts)."""
     from engine.squad_data import iter_examples, load_examples, read_squad_json
-    from engine.training.features import expand_examples
+    from engine.training.features import expand_examples, same_title_negatives
 
     counts: dict[str, int] = {}
     examples = []
@@ -88,7 +89,11 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
             neg = expand_examples(negatives[: config.cuad_negative_limit], rng, 1.0)
             items = sliced + neg
         else:
+            negatives = same_title_negatives(items, rng, config.same_title_negative_rate)
             items = expand_examples(items, rng, config.long_negatives_per_example)
+            if negatives:
+                counts[entry + " same-title negatives"] = len(negatives)
+                items += negatives
         counts[entry] = len(items)
         examples.extend(items)
     if config.synthetic_windows:
@@ -199,6 +204,7 @@ def train(config: TrainConfig) -> Path:
     while len(batches) < total:
         batches += length_grouped_batches(windows, config.batch_size, rng)
     model = AutoModelForQuestionAnswering.from_pretrained(init, local_files_only=True, use_safetensors=True)
+    model = model.float()  # committed readers are fp16; train (and keep AdamW moments) in fp32
     model.train()
     decay = [p for n, p in model.named_parameters() if not any(s in n for s in ("bias", "LayerNorm"))]
     no_decay = [p for n, p in model.named_parameters() if any(s in n for s in ("bias", "LayerNorm"))]
