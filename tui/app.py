@@ -27,6 +27,7 @@ from tui.history_screen import HistoryScreen
 from tui.palette import THEME, THEME_NAME
 from tui.problems_screen import ProblemsScreen
 from tui.question_bar import QuestionBar
+from tui.terminal_watch import TERMINAL_POLL_SECONDS, terminal_lost, watched_terminal_fd
 
 DEFAULT_CHECKLIST = Path(__file__).resolve().parent.parent / "checklists" / "commercial.checklist"
 EXPORT_STEM = "excerptor-answer-log"
@@ -70,6 +71,13 @@ class ExcerptorApp(App[int]):
         self.register_theme(THEME)
         self.theme = THEME_NAME
         self.sub_title = self.folder.name
+        terminal_fd = None if self.is_headless else watched_terminal_fd()
+        if terminal_fd is not None:
+            self.set_interval(TERMINAL_POLL_SECONDS, lambda: self._exit_if_terminal_lost(terminal_fd))
+
+    def _exit_if_terminal_lost(self, fd: int) -> None:
+        if terminal_lost(fd):
+            self.exit(return_code=1)
 
     def on_unmount(self) -> None:
         self.store.close()
