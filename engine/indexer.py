@@ -2,7 +2,8 @@
 
 A refresh:
 1. lists candidate files (the walker), then for each file, checking ``should_stop`` between files:
-   - size and mtime_ns unchanged -> unchanged (a file that failed before with the same stat is not retried);
+   - size and mtime_ns unchanged -> unchanged (a file that failed before with the same stat is not retried,
+     unless the ingest limits changed since: see ``ingest_settings_key``);
    - same size, new mtime, same sha256 -> only the stat is updated;
    - otherwise -> parsed, cut into passages, tokenised and stored (one transaction per file);
 2. drops documents whose files are gone (always: the listing is complete even when stopped early);
@@ -134,6 +135,12 @@ def _as_problems(doc: Document, problems: list[IngestProblem]) -> list[IngestPro
     return out
 
 
+def ingest_settings_key() -> str:
+    """The limits a failure depends on; a failed file is retried when this differs from the stored key."""
+    return (f"bytes={defaults.MAX_FILE_BYTES};seconds={defaults.MAX_FILE_SECONDS};"
+            f"pdf_pages={defaults.MAX_PDF_PAGES};pdf_child={defaults.PDF_IN_CHILD_PROCESS}")
+
+
 class _Run:
     """State of one refresh: the store, what it knew before, and what happened to each file."""
 
@@ -145,6 +152,10 @@ class _Run:
             if sp.problem.fatal:
                 self.old_failures.setdefault(sp.problem.path, []).append(sp)
         self.changed = store.get_meta("dirty") == "1"  # a previous run stopped before its BM25 rebuild
+        settings = ingest_settings_key()
+        if store.get_meta("ingest_settings") != settings:  # limits changed: files that failed get another try
+            self.old_failures = {}
+            store.set_meta({"ingest_settings": settings})
         self.indexed: list[str] = []
         self.unchanged: list[str] = []
         self.removed: list[str] = []

@@ -125,6 +125,12 @@ def test_file_limits_are_enforced(tmp_path, monkeypatch):
     assert reasons["big.pdf"] == "too many pages (300; the limit is 100)"
     assert reasons["long.txt"] == "file too large (151 KB; the limit is 98 KB)"  # KiB = 1024 bytes
     assert report.indexed == ("short.txt",)
+    # Same limits, same files: the failures are reported again without parsing the files again.
+    parsed = []
+    real_parse = indexer._parse
+    monkeypatch.setattr(indexer, "_parse", lambda path, rel: parsed.append(rel) or real_parse(path, rel))
+    again = refresh_index(folder)
+    assert parsed == [] and sorted(p.path for p in again.failed) == ["big.pdf", "long.txt"]
 
     # The time limit: 0 s still reads page 1, then stops with a warning (checked between pages).
     monkeypatch.setattr(defaults, "MAX_PDF_PAGES", 5000)
@@ -132,9 +138,9 @@ def test_file_limits_are_enforced(tmp_path, monkeypatch):
     monkeypatch.setattr(defaults, "MAX_FILE_SECONDS", 0.0)
     (folder / "big.pdf").write_bytes(hc.big_pdf_bytes(301))  # a new file: retried
     report = refresh_index(folder)
-    assert report.indexed == ("big.pdf",)
-    # An unchanged file that failed before is not retried, even though the limit was raised (indexer docstring).
-    assert [p.path for p in report.failed] == ["long.txt"]
+    # The limits changed, so the unchanged long.txt that failed before is retried too (indexer docstring).
+    assert sorted(report.indexed) == ["big.pdf", "long.txt"] and report.failed == ()
+    assert sorted(parsed) == ["big.pdf", "long.txt"]
     warned = [p.reason for p in report.warnings if p.path == "big.pdf"]
     assert warned == ["only page 1 was read: the file took longer than 0 s (the limit)"]
     with open_index(folder) as index:
