@@ -1,6 +1,7 @@
 """Measure the committed reader on the public test sets and write the numbers MODEL_CARD.md reports.
 
-Usage: .venv/bin/python scripts/evaluate_reader.py [--model models/reader-v1] [--out models/reader-v1/eval_report.json]
+Usage: .venv/bin/python scripts/evaluate_reader.py [--model MODEL_DIR] [--out MODEL_DIR/eval_report.json]
+(MODEL_DIR defaults to the committed reader, engine.defaults.READER_MODEL_DIR.)
 Test sets are read for reporting only; nothing here tunes anything. Each variant's speed is ms per window.
 """
 
@@ -16,6 +17,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
+from engine import defaults  # noqa: E402
 from engine.calibration import load_calibration  # noqa: E402
 from engine.evaluation import predict_examples  # noqa: E402
 from engine.metrics import score_v1, score_v2  # noqa: E402
@@ -61,7 +63,7 @@ def demo_page_examples() -> list:
 
 def main() -> int:
     parser = argparse.ArgumentParser()
-    parser.add_argument("--model", type=Path, default=ROOT / "models" / "reader-v1")
+    parser.add_argument("--model", type=Path, default=ROOT / defaults.READER_MODEL_DIR)
     parser.add_argument("--out", type=Path, default=None)
     parser.add_argument("--cuad-sample", type=int, default=150)
     parser.add_argument("--skip-squad-full", action="store_true")
@@ -71,27 +73,36 @@ def main() -> int:
     calibration = load_calibration(args.model)
     report: dict = {"model": str(args.model.relative_to(ROOT)), "threshold": calibration.null_margin_threshold,
                     "default_quantize": calibration.default_quantize}
+    out = args.out or args.model / "eval_report.json"
+    report["squad_sample"] = args.squad_sample or "all"
+    report["cuad_sample"] = args.cuad_sample
+
+    def save(section: str) -> None:  # after every section, so a cut-short run keeps what it measured
+        out.write_text(json.dumps(report, indent=2) + "\n", encoding="utf-8")
+        print(section, json.dumps(report.get(section)), flush=True)
+
     xquad = load_examples(DATA / "test/xquad_en.json.gz")
     report["xquad_en"] = {}
     wanted = (lambda name: args.only is None or name in args.only)
     for mode in (QUANTIZE_CHOICES if wanted("variants") else ()):
         reader = TransformerReader(args.model, quantize=mode)
         report["xquad_en"][mode] = run(reader, xquad, False, None)
-        print(mode, report["xquad_en"][mode], flush=True)
+        save("xquad_en")
     reader = TransformerReader(args.model)  # the default inference path
     if wanted("demo"):
         report["demo_questions_given_page"] = run(reader, demo_page_examples(), False, None)
-        print("demo pages", report["demo_questions_given_page"], flush=True)
-    if wanted("cuad"):
+        save("demo_questions_given_page")
+    if wanted("cuad_dev"):
         cuad_dev = load_examples(DATA / "dev/cuad_dev.json.gz")
         report["cuad_dev_sample"] = run(reader, random.Random(1).sample(cuad_dev, min(args.cuad_sample, len(cuad_dev))),
                                         True, calibration.null_margin_threshold)
-        print("cuad dev", report["cuad_dev_sample"], flush=True)
+        save("cuad_dev_sample")
     if wanted("xquad300"):
         report["xquad_en_first300_default"] = run(reader, xquad[:300], False, None)
+        save("xquad_en_first300_default")
     if wanted("tydi"):
         report["tydiqa_en_dev"] = run(reader, load_examples(DATA / "dev/tydiqa_goldp_en_dev.json.gz"), False, None)
-        print("tydi dev", report["tydiqa_en_dev"], flush=True)
+        save("tydiqa_en_dev")
 
     def squad(name: str) -> list:
         items = load_examples(DATA / name)
@@ -101,19 +112,15 @@ def main() -> int:
 
     if wanted("squad") and not args.skip_squad_full:
         report["squad_v1.1_dev"] = run(reader, squad("test/squad_dev_v1.1.json.gz"), False, None)
-        print("squad v1.1", report["squad_v1.1_dev"], flush=True)
+        save("squad_v1.1_dev")
         report["squad_v2.0_dev"] = run(reader, squad("test/squad_dev_v2.0.json.gz"), True,
                                        calibration.null_margin_threshold)
-        print("squad v2.0", report["squad_v2.0_dev"], flush=True)
+        save("squad_v2.0_dev")
     if wanted("cuad"):
         cuad = load_examples(DATA / "test/cuad_test.json.gz")
         sample = random.Random(0).sample(cuad, min(args.cuad_sample, len(cuad)))
         report["cuad_test_sample"] = run(reader, sample, True, calibration.null_margin_threshold)
-        print("cuad", report["cuad_test_sample"], flush=True)
-    report["squad_sample"] = args.squad_sample or "all"
-    report["cuad_sample"] = args.cuad_sample
-    out = args.out or args.model / "eval_report.json"
-    out.write_text(json.dumps(report, indent=2) + "\n", encoding="utf-8")
+        save("cuad_test_sample")
     print(f"wrote {out}")
     return 0
 

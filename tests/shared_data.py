@@ -7,6 +7,8 @@ from pathlib import Path
 
 import pytest
 
+from engine import defaults
+
 SHARED_QA = Path(__file__).resolve().parents[1].parent / "shared" / "data" / "qa"
 
 
@@ -23,7 +25,7 @@ def shared_file(relative: str) -> Path:
 
 def reader_dir() -> Path:
     """The committed reader folder; skips when it is not there (fails in CI, where it must be)."""
-    path = Path(__file__).resolve().parents[1] / "models" / "reader-v1"
+    path = Path(__file__).resolve().parents[1] / defaults.READER_MODEL_DIR
     if (path / "config.json").exists():
         return path
     message = f"needs the committed reader in {path}"

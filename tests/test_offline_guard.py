@@ -17,13 +17,14 @@ from pathlib import Path
 
 import pytest
 
+from engine import defaults
 from engine.indexer import open_index, refresh_index
 from engine.types import AskResult
 from engine.workspace import Workspace
 from tests.fakes import FAKE_CALIBRATION, FakeReader
 
 REPO = Path(__file__).resolve().parents[1]
-MODEL_DIR = REPO / "models" / "reader-v1"
+MODEL_DIR = REPO / defaults.READER_MODEL_DIR
 DEMO_QUESTION = json.loads((REPO / "tests" / "data" / "demo_questions.jsonl").read_text().splitlines()[0])
 
 
@@ -92,7 +93,7 @@ def test_sweep_and_export_offline(no_network, demo_folder, monkeypatch, tmp_path
 
 @pytest.mark.real_model
 @pytest.mark.skipif(not (MODEL_DIR / "config.json").is_file(),
-                    reason="models/reader-v1/config.json is missing: the committed reader is not there yet")
+                    reason=f"{defaults.READER_MODEL_DIR}/config.json is missing: the committed reader is not there yet")
 def test_real_reader_offline(no_network, demo_folder, monkeypatch):
     from engine.calibration import load_calibration
     from engine.reader.transformer_reader import TransformerReader
