@@ -14,25 +14,21 @@ Invariants:
 
 from __future__ import annotations
 
-import hashlib
 import sqlite3
 import threading
 from collections.abc import Callable, Iterable, Iterator
 from contextlib import contextmanager
-from dataclasses import dataclass
-from datetime import datetime, timezone
 from pathlib import Path
 
 from engine import defaults
+from engine.review_records import (  # noqa: F401 - re-exported: the store's public vocabulary
+    DECISIONS, LOG_COLUMNS, HistoryEntry, StoredAnswer, SweepCell, check_decision, clean_note, log_row,
+    question_hash, require_text, stored_answer_from_row, sweep_cell_from_row, utc_now,
+)
 from engine.types import Answer, AskResult
 
 SCHEMA_VERSION = "1"
 REVIEW_DB_NAME = "review.sqlite3"
-DECISIONS = ("accepted", "rejected", "corrected")
-
-# The documented keys of a ``log_rows()`` row, in export column order.
-LOG_COLUMNS = ("source", "question", "label", "answer", "corrected_text", "confidence", "low_confidence", "file",
-               "page", "locator", "start", "end", "decision", "note", "asked_at", "decided_at")
 
 _SCHEMA = """
 CREATE TABLE IF NOT EXISTS meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
@@ -71,96 +67,8 @@ _CELL_ORDER = ("c.doc_path, (SELECT MIN(c2.cell_id) FROM cells c2 WHERE c2.check
                " AND c2.label = c.label), c.cell_id")
 
 
-@dataclass(frozen=True)
-class HistoryEntry:
-    question_id: int
-    question: str
-    scope: str | None
-    asked_at: str  # ISO-8601 UTC
-    n_answers: int
-    abstained: bool
-
-
-@dataclass(frozen=True)
-class StoredAnswer:
-    answer_id: int
-    question_id: int
-    rank: int  # 1 = best
-    text: str
-    score: float
-    low_confidence: bool
-    file: str
-    page: int | None
-    locator: str
-    start: int
-    end: int
-    passage: str
-    passage_start: int
-    decision: str | None  # None | "accepted" | "rejected" | "corrected"
-    corrected_text: str | None
-    note: str | None
-    decided_at: str | None
-
-
-@dataclass(frozen=True)
-class SweepCell:
-    cell_id: int
-    checklist: str
-    doc_path: str
-    doc_sha256: str
-    label: str
-    question: str
-    question_hash: str
-    answer: str | None
-    score: float | None
-    low_confidence: bool
-    page: int | None
-    locator: str | None
-    start: int | None
-    end: int | None
-    passage: str | None
-    passage_start: int | None
-    abstained: bool
-    decision: str | None
-    corrected_text: str | None
-    note: str | None
-    decided_at: str | None
-    swept_at: str
-
-
 def review_db_path(folder: Path | str) -> Path:
     return Path(folder) / defaults.INDEX_DIR_NAME / REVIEW_DB_NAME
-
-
-def question_hash(question: str) -> str:
-    """sha256 hex digest of the question text (UTF-8), exactly as given."""
-    return hashlib.sha256(question.encode("utf-8")).hexdigest()
-
-
-def utc_now() -> str:
-    return datetime.now(timezone.utc).isoformat(timespec="seconds")
-
-
-def _check_decision(decision: str | None, corrected_text: str | None) -> str | None:
-    """Validate a decision; returns the corrected text to store (None unless decision is "corrected")."""
-    if decision is not None and decision not in DECISIONS:
-        raise ValueError(f"decision must be one of {', '.join(DECISIONS)} or None (got {decision!r})")
-    text = corrected_text if corrected_text is not None and corrected_text.strip() else None
-    if decision == "corrected" and text is None:
-        raise ValueError(f"a 'corrected' decision needs a non-empty corrected_text (got {corrected_text!r})")
-    if decision != "corrected" and text is not None:
-        raise ValueError(f"corrected_text is only kept with decision 'corrected' (got decision {decision!r})")
-    return text
-
-
-def _clean_note(note: str | None) -> str | None:
-    return note if note is not None and note.strip() else None
-
-
-def _require_text(name: str, value: object) -> str:
-    if not isinstance(value, str) or not value.strip():
-        raise ValueError(f"{name} must be a non-empty string (got {value!r})")
-    return value
 
 
 class ReviewStore:
@@ -221,7 +129,7 @@ class ReviewStore:
         """Store a question, its scope and all its answers (rank 1 = first) in one transaction."""
         if not isinstance(result, AskResult):
             raise ValueError(f"an AskResult is needed (got {type(result).__name__})")
-        _require_text("question", result.question)
+        require_text("question", result.question)
         with self._tx() as c:
             cur = c.execute("INSERT INTO questions(question, scope, asked_at, abstained, seconds)"
                             " VALUES (?, ?, ?, ?, ?)",
@@ -253,7 +161,7 @@ class ReviewStore:
                 raise ValueError(f"no stored question with this id (got {question_id!r})")
             answers = self._conn.execute(f"SELECT {_ANSWER_COLS} FROM answers WHERE question_id = ? ORDER BY rank",
                                          (question_id,)).fetchall()
-        return self._entry(row), [_stored_answer(a) for a in answers]
+        return self._entry(row), [stored_answer_from_row(a) for a in answers]
 
     def delete_question(self, question_id: int) -> None:
         """Remove a question and its answers (one transaction)."""
@@ -265,7 +173,7 @@ class ReviewStore:
             row = self._conn.execute(f"SELECT {_ANSWER_COLS} FROM answers WHERE answer_id = ?", (answer_id,)).fetchone()
         if row is None:
             raise ValueError(f"no stored answer with this id (got {answer_id!r})")
-        return _stored_answer(row)
+        return stored_answer_from_row(row)
 
     def set_decision(self, answer_id: int, decision: str | None, corrected_text: str | None = None,
                      note: str | None = None) -> StoredAnswer:
@@ -283,19 +191,19 @@ class ReviewStore:
 
     def _decide(self, table: str, key: str, get: Callable, item_id: int, decision: str | None,
                 corrected_text: str | None, note: str | None) -> None:
-        text = _check_decision(decision, corrected_text)
+        text = check_decision(decision, corrected_text)
         decided_at = self._clock() if decision is not None else None
         with self._tx() as c:
             get(item_id)  # raises ValueError for an unknown id
             c.execute(f"UPDATE {table} SET decision = ?, corrected_text = ?, decided_at = ? WHERE {key} = ?",
                       (decision, text, decided_at, item_id))
             if note is not None:
-                c.execute(f"UPDATE {table} SET note = ? WHERE {key} = ?", (_clean_note(note), item_id))
+                c.execute(f"UPDATE {table} SET note = ? WHERE {key} = ?", (clean_note(note), item_id))
 
     def _annotate(self, table: str, key: str, get: Callable, item_id: int, note: str | None) -> None:
         with self._tx() as c:
             get(item_id)
-            c.execute(f"UPDATE {table} SET note = ? WHERE {key} = ?", (_clean_note(note), item_id))
+            c.execute(f"UPDATE {table} SET note = ? WHERE {key} = ?", (clean_note(note), item_id))
 
     def _entry(self, r: sqlite3.Row) -> HistoryEntry:
         return HistoryEntry(r["question_id"], r["question"], r["scope"], r["asked_at"], r["n"], bool(r["abstained"]))
@@ -306,7 +214,7 @@ class ReviewStore:
         """Insert or refresh one cell (one transaction). See the module docstring for when decisions are kept."""
         for name, value in (("checklist", checklist), ("doc_path", doc_path), ("doc_sha256", doc_sha256),
                             ("label", label), ("question", question)):
-            _require_text(name, value)
+            require_text(name, value)
         if answer is not None and abstained:
             raise ValueError(f"an abstained cell has no answer (got answer {answer.text!r} with abstained=True)")
         if answer is not None and answer.citation.file != doc_path:
@@ -349,14 +257,14 @@ class ReviewStore:
         with self._lock:
             rows = self._conn.execute(f"SELECT {_CELL_COLS} FROM cells c WHERE c.checklist = ? ORDER BY {_CELL_ORDER}",
                                       (checklist,)).fetchall()
-        return [_sweep_cell(r) for r in rows]
+        return [sweep_cell_from_row(r) for r in rows]
 
     def cell(self, cell_id: int) -> SweepCell:
         with self._lock:
             row = self._conn.execute(f"SELECT {_CELL_COLS} FROM cells WHERE cell_id = ?", (cell_id,)).fetchone()
         if row is None:
             raise ValueError(f"no sweep cell with this id (got {cell_id!r})")
-        return _sweep_cell(row)
+        return sweep_cell_from_row(row)
 
     def checklists(self) -> list[str]:
         """Names of the checklists that have stored cells, sorted."""
@@ -406,46 +314,17 @@ class ReviewStore:
                 f"SELECT {_CELL_COLS} FROM cells c ORDER BY c.checklist, {_CELL_ORDER}").fetchall()
         by_question: dict[int, list[StoredAnswer]] = {}
         for a in answers:
-            by_question.setdefault(a["question_id"], []).append(_stored_answer(a))
+            by_question.setdefault(a["question_id"], []).append(stored_answer_from_row(a))
         for q in questions:
             base = {"source": "ask", "question": q["question"], "label": None, "asked_at": q["asked_at"]}
             stored = by_question.get(q["question_id"], [])
             if not stored:
-                rows.append(_row(base, None))
+                rows.append(log_row(base, None))
             for a in stored:
-                rows.append(_row(base, a))
+                rows.append(log_row(base, a))
         for r in cells:
-            cell = _sweep_cell(r)
+            cell = sweep_cell_from_row(r)
             base = {"source": f"sweep:{cell.checklist}", "question": cell.question, "label": cell.label,
                     "asked_at": cell.swept_at}
-            rows.append(_row(base, cell, file=cell.doc_path))
+            rows.append(log_row(base, cell, file=cell.doc_path))
         return rows
-
-
-def _row(base: dict, item: StoredAnswer | SweepCell | None, file: str | None = None) -> dict:
-    def get(name: str):
-        return None if item is None else getattr(item, name)
-
-    text = get("text") if isinstance(item, StoredAnswer) else get("answer")
-    score = get("score")
-    return {
-        "source": base["source"], "question": base["question"], "label": base["label"], "answer": text,
-        "corrected_text": get("corrected_text"), "confidence": None if score is None else round(score, 4),
-        "low_confidence": bool(get("low_confidence")), "file": file if file is not None else get("file"),
-        "page": get("page"), "locator": get("locator"), "start": get("start"), "end": get("end"),
-        "decision": get("decision"), "note": get("note"), "asked_at": base["asked_at"],
-        "decided_at": get("decided_at"), "passage": get("passage"), "passage_start": get("passage_start"),
-    }
-
-
-def _stored_answer(r: sqlite3.Row) -> StoredAnswer:
-    return StoredAnswer(r["answer_id"], r["question_id"], r["rank"], r["text"], r["score"], bool(r["low_confidence"]),
-                        r["file"], r["page"], r["locator"], r["start"], r["end"], r["passage"], r["passage_start"],
-                        r["decision"], r["corrected_text"], r["note"], r["decided_at"])
-
-
-def _sweep_cell(r: sqlite3.Row) -> SweepCell:
-    return SweepCell(r["cell_id"], r["checklist"], r["doc_path"], r["doc_sha256"], r["label"], r["question"],
-                     r["question_hash"], r["answer"], r["score"], bool(r["low_confidence"]), r["page"], r["locator"],
-                     r["start"], r["end"], r["passage"], r["passage_start"], bool(r["abstained"]), r["decision"],
-                     r["corrected_text"], r["note"], r["decided_at"], r["swept_at"])
