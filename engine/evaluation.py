@@ -56,3 +56,33 @@ def evaluate_file(
     predictions = predict_examples(reader, examples, threshold if v2 else None)
     texts = {k: v.text for k, v in predictions.items()}
     return (score_v2(texts, golds) if v2 else score_v1(texts, golds)), predictions
+
+
+def per_question_f1(predictions: dict[str, Prediction], examples: Sequence[SquadExample]) -> dict[str, float]:
+    """Official v1.1 token F1 of each question's best span (max over its gold answers), in 0..1."""
+    from engine.metrics import f1_v1
+
+    return {e.qid: max(f1_v1(predictions[e.qid].span_text, a.text) for a in e.answers) for e in examples if e.answers}
+
+
+def paired_bootstrap(
+    scores_a: Sequence[float], scores_b: Sequence[float], resamples: int = 2000, seed: int = 0
+) -> tuple[float, float, float]:
+    """Mean of b - a over paired questions, with a 95 % percentile interval from resampling the questions.
+
+    The paired bootstrap (Efron and Tibshirani, 1993; Koehn, 2004): draw n question indices with replacement,
+    take the mean difference, repeat; the 2.5th and 97.5th percentiles bound the interval.
+    """
+    import numpy as np
+
+    a = np.asarray(scores_a, dtype=np.float64)
+    b = np.asarray(scores_b, dtype=np.float64)
+    if a.shape != b.shape or a.ndim != 1 or a.size == 0:
+        raise ValueError(f"need two paired, non-empty 1-D score lists (got {a.shape} and {b.shape})")
+    if resamples < 1:
+        raise ValueError(f"resamples must be >= 1 (got {resamples})")
+    diff = b - a
+    rng = np.random.default_rng(seed)
+    means = diff[rng.integers(0, diff.size, size=(resamples, diff.size))].mean(axis=1)
+    low, high = np.percentile(means, [2.5, 97.5])
+    return float(diff.mean()), float(low), float(high)

@@ -64,3 +64,36 @@ def test_missing_prediction_scores_zero_and_bad_input_raises():
     assert score_v1({}, {"q": ["x"]}).f1 == 0.0
     with pytest.raises(ValueError, match=r"\(got"):
         score_v1({}, {})
+
+
+def test_paired_bootstrap_interval_matches_the_normal_approximation():
+    """Paired bootstrap (Efron and Tibshirani, 1993). For 400 differences that are half 0 and half 1, the mean is
+    0.5 and the central limit theorem gives a 95 % interval of 0.5 +/- 1.96 * sqrt(0.25 / 400) = [0.451, 0.549]."""
+    from engine.evaluation import paired_bootstrap
+
+    old = [0.0] * 400
+    new = [0.0, 1.0] * 200
+    gain, low, high = paired_bootstrap(old, new, resamples=4000, seed=1)
+    assert gain == pytest.approx(0.5)
+    assert low == pytest.approx(0.451, abs=0.006) and high == pytest.approx(0.549, abs=0.006)
+    # A constant gain leaves nothing to resample: the interval collapses onto it.
+    assert paired_bootstrap([0.2, 0.4, 0.6], [0.3, 0.5, 0.7]) == pytest.approx((0.1, 0.1, 0.1))
+    with pytest.raises(ValueError, match=r"got \(2,\) and \(3,\)"):
+        paired_bootstrap([0.1, 0.2], [0.1, 0.2, 0.3])
+
+
+def test_paired_bootstrap_agrees_with_scipy():
+    """Reference library: scipy.stats.bootstrap, percentile method, on the same paired differences."""
+    import numpy as np
+    from scipy import stats
+
+    from engine.evaluation import paired_bootstrap
+
+    rng = np.random.default_rng(5)
+    old = rng.uniform(0, 1, 300)
+    new = np.clip(old + rng.normal(0.03, 0.3, 300), 0, 1)
+    gain, low, high = paired_bootstrap(old, new, resamples=4000, seed=2)
+    reference = stats.bootstrap((new - old,), np.mean, n_resamples=4000, method="percentile",
+                                random_state=3).confidence_interval
+    assert gain == pytest.approx(float(np.mean(new - old)))
+    assert low == pytest.approx(reference.low, abs=0.006) and high == pytest.approx(reference.high, abs=0.006)
