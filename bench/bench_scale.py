@@ -398,7 +398,7 @@ def render(args: argparse.Namespace, machine: dict, results: list[dict], recall:
 def parse_args(argv: list[str] | None) -> argparse.Namespace:
     ap = argparse.ArgumentParser(description="Excerptor scale benchmarks (see the module docstring).")
     ap.add_argument("--sizes", type=int, nargs="+", default=[100, 1000], help="documents per corpus")
-    ap.add_argument("--reader", action="store_true", help="also time the reader (needs models/reader-v1)")
+    ap.add_argument("--reader", action="store_true", help="also time the reader (needs the committed reader)")
     ap.add_argument("--out", type=Path, help="write the report (Markdown) here as well")
     ap.add_argument("--work", type=Path, default=Path(tempfile.gettempdir()) / "excerptor-bench",
                     help="where corpora are written and reused")

@@ -10,7 +10,7 @@ with each reader under its own checklist name, so neither run skips cells of the
 cells/s = cells swept / sweep seconds; windows/s = reader windows / sweep seconds; ratio = int8 / fp32.
 Each reader reads one small warm-up pair before it is timed.
 
-Needs the committed reader (models/reader-v1); without it the bench says so and exits 0. ``--fake`` uses the
+Needs the committed reader (engine.defaults.READER_MODEL_DIR); without it the bench says so and exits 0. ``--fake`` uses the
 test stand-in reader for both columns (checks the plumbing, measures nothing about the model).
 """
 
@@ -28,6 +28,7 @@ ROOT = Path(__file__).resolve().parents[1]
 if str(ROOT) not in sys.path:
     sys.path.insert(0, str(ROOT))
 
+from engine import defaults  # noqa: E402
 from engine.checklist import Checklist, load_checklist  # noqa: E402
 from engine.indexer import refresh_index  # noqa: E402
 from engine.review_store import ReviewStore  # noqa: E402
@@ -126,7 +127,7 @@ def main(argv: list[str] | None = None) -> int:
         raise SystemExit(f"--limit-questions must be >= 1 (got {args.limit_questions})")
     factories = reader_factories(args.fake)
     if factories is None:
-        print("bench_sweep: no trained reader in models/reader-v1 (config.json missing); nothing measured. "
+        print(f"bench_sweep: no trained reader in {defaults.READER_MODEL_DIR} (config.json missing); nothing measured. "
               "Train or install the reader, or run with --fake to check the plumbing.")
         return 0
     checklist = load_checklist(args.checklist)

@@ -70,6 +70,7 @@ def main() -> int:
     parser.add_argument("--squad-sample", type=int, default=0, help="random N questions of each SQuAD dev file (0 = all)")
     parser.add_argument("--only", nargs="*", default=None, help="sections to run (default: all)")
     args = parser.parse_args()
+    args.model = args.model.resolve()
     calibration = load_calibration(args.model)
     report: dict = {"model": str(args.model.relative_to(ROOT)), "threshold": calibration.null_margin_threshold,
                     "default_quantize": calibration.default_quantize}
