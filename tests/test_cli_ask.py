@@ -17,7 +17,7 @@ ANSWER_KEYS = {"text": str, "score": float, "file": str, "start": int, "end": in
 @pytest.fixture()
 def folder(tmp_path, monkeypatch):
     target = tmp_path / "docs"
-    shutil.copytree(DEMO, target)
+    shutil.copytree(DEMO, target, ignore=shutil.ignore_patterns(".excerptor"))  # a user's own index stays out
     monkeypatch.setattr(engine.workspace, "load_default_reader", lambda quantize=None: (FakeReader(), FAKE_CALIBRATION))
     return target
 
