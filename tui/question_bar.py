@@ -14,6 +14,8 @@ from tui import palette
 from tui.state import Scope
 
 PLACEHOLDER = "Type a question about these agreements and press Enter"
+# "/" is the key that opens the question box; pressed again inside it, it must not start the question.
+NO_LEADING_SLASH = r"(?!/).*"
 
 
 class QuestionBar(Horizontal):
@@ -38,7 +40,7 @@ class QuestionBar(Horizontal):
         """Escape pressed in the question box."""
 
     def compose(self) -> ComposeResult:
-        yield Input(placeholder=PLACEHOLDER, id="question")
+        yield Input(placeholder=PLACEHOLDER, id="question", restrict=NO_LEADING_SLASH)
         yield Static(id="scope-chip", markup=False)
 
     def on_mount(self) -> None:

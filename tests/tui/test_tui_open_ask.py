@@ -177,3 +177,16 @@ async def test_reader_loads_once_in_background_with_status(tmp_path):
         await ask(pilot, "How long is the operating term of the land lease?")
         assert loads == [1]  # loaded once, reused (Workspace.ensure_reader contract)
         assert len(app.desk.query_one(AnswerList).answers) > 0
+
+
+@run_async
+async def test_slash_in_an_empty_question_box_is_not_typed(tmp_path):
+    """A user told "press / to ask" presses it while the box already has focus: no stray "/" in the question."""
+    folder = demo_copy(tmp_path)
+    app = build_app(folder)
+    async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot)
+        box = app.desk.query_one(Input)
+        box.focus()
+        await pilot.press("slash", "slash", "a", "slash", "b")
+        assert box.value == "a/b"  # a "/" inside the question is kept
