@@ -6,7 +6,9 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Sequence
 
-from engine.metrics import SquadScores, score_v1, score_v2
+import numpy as np
+
+from engine.metrics import SquadScores, f1_v1, score_v1, score_v2
 from engine.reader.interface import SpanReader
 from engine.squad_data import SquadExample, load_examples
 
@@ -60,8 +62,6 @@ def evaluate_file(
 
 def per_question_f1(predictions: dict[str, Prediction], examples: Sequence[SquadExample]) -> dict[str, float]:
     """Official v1.1 token F1 of each question's best span (max over its gold answers), in 0..1."""
-    from engine.metrics import f1_v1
-
     return {e.qid: max(f1_v1(predictions[e.qid].span_text, a.text) for a in e.answers) for e in examples if e.answers}
 
 
@@ -73,8 +73,6 @@ def paired_bootstrap(
     The paired bootstrap (Efron and Tibshirani, 1993; Koehn, 2004): draw n question indices with replacement,
     take the mean difference, repeat; the 2.5th and 97.5th percentiles bound the interval.
     """
-    import numpy as np
-
     a = np.asarray(scores_a, dtype=np.float64)
     b = np.asarray(scores_b, dtype=np.float64)
     if a.shape != b.shape or a.ndim != 1 or a.size == 0:

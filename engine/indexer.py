@@ -152,10 +152,9 @@ class _Run:
             if sp.problem.fatal:
                 self.old_failures.setdefault(sp.problem.path, []).append(sp)
         self.changed = store.get_meta("dirty") == "1"  # a previous run stopped before its BM25 rebuild
-        settings = ingest_settings_key()
-        if store.get_meta("ingest_settings") != settings:  # limits changed: files that failed get another try
+        self.settings = ingest_settings_key()
+        if store.get_meta("ingest_settings") != self.settings:  # limits changed: failed files get another try
             self.old_failures = {}
-            store.set_meta({"ingest_settings": settings})
         self.indexed: list[str] = []
         self.unchanged: list[str] = []
         self.removed: list[str] = []
@@ -290,6 +289,8 @@ def refresh_index(
                 progress(IndexProgress(i, len(files), rel))
             run.handle(abs_path, rel)
         run.finish({r for _, r in files}, walk_problems)
+        if not stopped:  # every file was seen under these limits; a stopped run retries again next time
+            store.set_meta({"ingest_settings": run.settings})
         if run.changed or not _bm25_file_ok(store, idir):
             rebuild_bm25(store, idir)
         n_passages = store.count_passages()
