@@ -3,8 +3,9 @@
 - quantisation: the fastest int8 variant whose dev F1 is within 1.5 of fp32 (TyDi-en dev);
 - the no-answer margin threshold: the lowest (most abstaining) margin whose answerable-question F1 on a dev mix
   stays within HASANS_F1_BUDGET of answering everything. The mix: TyDi-en dev with its own paragraph, the same
-  question against the BM25-nearest other paragraph (a topic-near negative), and CUAD dev slices. The threshold
-  that maximises v2.0 F1 on the mix is reported beside it;
+  question against the BM25-nearest other paragraph (a topic-near negative), the question with one name or number
+  swapped against its own paragraph (a SQuAD 2.0-style negative), and CUAD dev slices. The threshold that
+  maximises v2.0 F1 on the mix is reported beside it, and so is the share of each kind of negative abstained;
 - the fusion weight mu: maximises top-answer F1 when the 440 TyDi-en dev paragraphs form one BM25 corpus;
 - the confidence curve: a logistic fit of "top answer has F1 >= 0.5" on the margin.
 No test/ file is read here.
@@ -27,6 +28,7 @@ from engine.metrics import f1_v1, f1_v2, score_v1
 from engine.squad_data import SquadExample, load_examples
 from engine.text_tokens import tokenize_for_search
 from engine.training.features import expand_examples
+from engine.training.swap_negatives import swapped_entity_negatives
 from engine.types import Passage
 
 MAX_F1_LOSS = 1.5
@@ -40,7 +42,21 @@ def dev_mix(data_dir: Path, rng: random.Random, cuad_limit: int = 400) -> list[S
     cuad = load_examples(data_dir / "dev/cuad_dev.json.gz")
     rng.shuffle(cuad)
     sliced = expand_examples(cuad[:cuad_limit], rng, negatives_per_example=0.5)
-    return tydi + topic_near_negatives(tydi) + sliced
+    return tydi + topic_near_negatives(tydi) + swapped_entity_negatives(tydi, rng, 1.0) + sliced
+
+
+NEGATIVE_KINDS = {"#x": "topic_near", "#s": "swapped", "#n": "cuad_slice"}
+
+
+def abstention_by_kind(predictions, examples, threshold: float) -> dict[str, float]:
+    """Per kind of dev negative (by qid suffix), the percentage abstained at ``threshold`` (null - best > t)."""
+    seen: dict[str, list[bool]] = {}
+    for e in examples:
+        if e.answers:
+            continue
+        kind = next((name for suffix, name in NEGATIVE_KINDS.items() if suffix in e.qid), "other")
+        seen.setdefault(kind, []).append(predictions[e.qid].null_margin > threshold)
+    return {kind: round(100.0 * sum(v) / len(v), 2) for kind, v in sorted(seen.items())}
 
 
 def topic_near_negatives(examples: list[SquadExample]) -> list[SquadExample]:
@@ -169,6 +185,7 @@ def calibrate(model_dir: Path, data_dir: Path, seed: int = 7, log=print) -> dict
     best_v2, v2_f1 = best_threshold(predictions, mix)
     budget = budget_threshold(predictions, mix)
     threshold = budget["threshold"]
+    budget["no_ans_abstained_by_kind"] = abstention_by_kind(predictions, mix, threshold)
     log(f"no-answer threshold {threshold:.3f} ({json.dumps(budget)}); the best dev-mix v2.0 F1 would be "
         f"{v2_f1:.2f} at {best_v2:.3f}, on {len(mix)} questions")
     mu, grid, slope, intercept = fusion_and_confidence(reader, data_dir)

@@ -33,6 +33,8 @@ class TrainConfig:
     long_negatives_per_example: float = 0.3
     synthetic_windows: int = 12000
     same_title_negative_rate: float = 0.0  # share of general questions also paired with another paragraph
+    swap_negative_rate: float = 0.0  # share of general questions also given a swapped-name/number unanswerable twin
+    consensus_labels: bool = False  # label with the medoid of several gold answers instead of the first
     seed: int = 13
     max_length: int = 256
     stride: int = 96
@@ -70,6 +72,8 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
     """The training mix: general QA, CUAD slices and synthetic contract questions. Returns (examples, counts)."""
     from engine.squad_data import iter_examples, load_examples, read_squad_json
     from engine.training.features import expand_examples, same_title_negatives
+    from engine.training.label_choice import with_consensus_first
+    from engine.training.swap_negatives import swapped_entity_negatives
 
     counts: dict[str, int] = {}
     examples = []
@@ -89,11 +93,19 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
             neg = expand_examples(negatives[: config.cuad_negative_limit], rng, 1.0)
             items = sliced + neg
         else:
+            if config.consensus_labels:
+                relabelled = [with_consensus_first(e) for e in items]
+                counts[entry + " consensus relabelled"] = sum(a is not b for a, b in zip(items, relabelled))
+                items = relabelled
             negatives = same_title_negatives(items, rng, config.same_title_negative_rate)
+            swapped = swapped_entity_negatives(items, rng, config.swap_negative_rate)
             items = expand_examples(items, rng, config.long_negatives_per_example)
             if negatives:
                 counts[entry + " same-title negatives"] = len(negatives)
                 items += negatives
+            if swapped:
+                counts[entry + " swapped negatives"] = len(swapped)
+                items += swapped
         counts[entry] = len(items)
         examples.extend(items)
     if config.synthetic_windows:

@@ -1,0 +1,84 @@
+"""Which gold span labels a training window, and the swapped-entity unanswerable questions.
+
+The consensus rule uses the official SQuAD v1.1 token F1 (Rajpurkar et al., 2016); the expected indices below are
+worked by hand from that formula. The swap rule follows SQuAD 2.0's "entity swap" category (Rajpurkar et al.,
+2018, table 2); its checks are invariants, and the last test runs it over a real training file.
+"""
+
+import random
+
+import pytest
+
+from engine.squad_data import GoldAnswer, SquadExample, load_examples
+from engine.training.label_choice import consensus_index, with_consensus_first
+from engine.training.swap_negatives import swappable_phrases, swapped_entity_negatives
+from tests.shared_data import shared_file
+
+
+def test_consensus_is_the_medoid_by_token_f1():
+    # Worked by hand: F1("three", "three brotherhoods") = 2 * (1/1 * 1/2) / (1 + 1/2) = 2/3.
+    # Sums over the other answers: "three brotherhoods": 0 + 2/3 + 2/3 = 4/3; each "three": 0 + 2/3 + 1 = 5/3;
+    # the long listing shares no token with the others (articles and punctuation are dropped): 0.
+    answers = ["See of Cilicia and the brotherhood of St. James", "three brotherhoods", "three", "three"]
+    assert consensus_index(answers) == 2  # the first of the tied "three"s
+    # Two answers or one: nothing to vote on, the first is kept.
+    assert consensus_index(["a long clause here", "short"]) == 0
+    assert consensus_index(["only"]) == 0
+
+
+def test_with_consensus_first_moves_the_medoid_and_keeps_every_answer():
+    context = "Each brotherhood elects two delegates who take part in the Assembly."
+    texts = ["Each brotherhood elects two delegates who take part in the Assembly", "two delegates", "two delegates"]
+    answers = tuple(GoldAnswer(t, context.index(t)) for t in texts)
+    ex = SquadExample("q", "t", "How many delegates?", context, answers, False)
+    moved = with_consensus_first(ex)
+    assert moved.answers[0].text == "two delegates"
+    assert sorted(a.text for a in moved.answers) == sorted(texts)
+    assert context[moved.answers[0].start:].startswith("two delegates")
+    single = SquadExample("s", "t", "How many delegates?", context, answers[:1], False)
+    assert with_consensus_first(single) is single
+
+
+def test_swappable_phrases_skip_the_first_word():
+    question = "When did Mount Victoria become a station in 1868?"
+    found = swappable_phrases(question)
+    assert ("name", "Mount Victoria", question.index("Mount")) in found
+    assert ("number", "1868", question.index("1868")) in found
+    assert all(p != "When" for _, p, _ in found)
+
+
+def test_swapped_questions_name_something_the_context_lacks():
+    p1 = "The Harbour Bridge opened in 1932 after eight years of work by Bradfield."
+    p2 = "The Tower Bridge opened in 1894 and was designed by Jones."
+    items = [
+        SquadExample("q1", "Bridges", "When did the Harbour Bridge open?", p1, (GoldAnswer("1932", p1.index("1932")),),
+                     False),
+        SquadExample("q2", "Bridges", "Who designed the Tower Bridge?", p2, (GoldAnswer("Jones", p2.index("Jones")),),
+                     False),
+    ]
+    out = {n.qid: n for n in swapped_entity_negatives(items, random.Random(0), rate=1.0)}
+    assert out["q1#s"].question == "When did the Tower Bridge open?"
+    assert out["q2#s"].question == "Who designed the Harbour Bridge?"
+    assert all(n.is_impossible and n.answers == () for n in out.values())
+    assert swapped_entity_negatives(items, random.Random(0), rate=0.0) == []
+    with pytest.raises(ValueError, match=r"got -0.1"):
+        swapped_entity_negatives(items, random.Random(0), rate=-0.1)
+
+
+def test_swaps_on_a_real_training_file_keep_their_invariants():
+    items = load_examples(shared_file("train/tydiqa_goldp_en_train.json.gz"), limit=1500)
+    by_id = {e.qid: e for e in items}
+    negatives = swapped_entity_negatives(items, random.Random(3), rate=0.5)
+    assert len(negatives) > 100
+    for neg in negatives:
+        source = by_id[neg.qid.removesuffix("#s")]
+        assert neg.context == source.context and neg.question != source.question
+        # Exactly one phrase was replaced, in place: the text before and after it is unchanged.
+        head = next(i for i, (a, b) in enumerate(zip(source.question, neg.question)) if a != b)
+        tail = len(source.question) - next(i for i, (a, b) in enumerate(zip(source.question[::-1], neg.question[::-1]))
+                                           if a != b)
+        phrases = {p: at for _, p, at in swappable_phrases(source.question)}
+        old = next(p for p, at in phrases.items() if at <= head and at + len(p) >= tail)
+        assert old in source.context
+        added = [p for _, p, _ in swappable_phrases(neg.question) if p not in source.question]
+        assert all(p.casefold() not in neg.context.casefold() for p in added)
