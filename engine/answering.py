@@ -5,7 +5,9 @@ Pipeline for one question:
 2. the reader's best spans and null score for each passage;
 3. each span's margin m = span score - passage null score; fused rank score
    ``(1 - mu) * bm25 / bm25_max + mu * m`` (BERTserini-style linear interpolation);
-4. identical answers (same normalised text) merge into the best-ranked one, keeping the other citations;
+4. identical answers (same normalised text) merge into the best-ranked one, keeping the other citations; a
+   different span that overlaps a better-ranked one on the same page (say "ninety (90) days" inside "ninety (90)
+   days' prior written notice") is the same clause read twice, and is dropped (non-maximum suppression);
 5. abstain (no answers) when the best span's null margin exceeds the calibrated threshold;
 6. confidence = the calibrated logistic of m, in [0, 1].
 """
@@ -58,12 +60,16 @@ def rank_answers(
         return AskResult(question, (), True)
     merged: dict[str, list] = {}
     order: list[str] = []
+    cited: list[Citation] = []
     for fused, margin, scored, span in candidates:
         key = normalize_answer(span.text) or span.text.strip()
         if not key:
             continue
         p = scored.passage
         citation = Citation(p.doc_path, p.page_number, p.locator, p.start + span.start, p.start + span.end)
+        if key not in merged and any(overlaps(citation, c) for c in cited):
+            continue
+        cited.append(citation)
         if key not in merged:
             merged[key] = [fused, margin, scored, span, []]
             order.append(key)
@@ -81,6 +87,12 @@ def rank_answers(
         ))
     answers.sort(key=lambda a: -a.score)
     return AskResult(question, tuple(answers), False)
+
+
+def overlaps(a: Citation, b: Citation) -> bool:
+    """True when two citations share at least one character of the same page: a.start < b.end and b.start < a.end."""
+    same_page = (a.file, a.page, a.locator) == (b.file, b.page, b.locator)
+    return same_page and a.start < b.end and b.start < a.end
 
 
 def _citation_of(entry) -> Citation:

@@ -74,3 +74,16 @@ def test_logistic_fit_recovers_a_known_curve():
     y = (rng.random(4000) < 1 / (1 + np.exp(-(2 * x - 1)))).astype(float)
     a, b = fit_logistic(x, y)
     assert a == pytest.approx(2.0, abs=0.2) and b == pytest.approx(-1.0, abs=0.15)
+
+
+def test_overlapping_spans_of_one_clause_are_one_answer():
+    long_notice = "ninety (90) days' notice"
+    readings = [Reading((span(P1, "ninety (90) days", 6.0), span(P1, long_notice, 5.0)), 1.0, 2),
+                Reading((span(P2, "ninety (90) days' notice in writing", 4.0),), 1.0, 1)]
+    result = rank_answers("notice?", [ScoredPassage(P1, 8.0), ScoredPassage(P2, 6.0)], readings, CAL)
+    # The longer span in P1 covers the better-ranked one on the same page: dropped. P2 is another file: kept.
+    assert [a.text for a in result.answers] == ["ninety (90) days", "ninety (90) days' notice in writing"]
+    # Touching but not overlapping spans on one page stay apart (half-open character ranges).
+    readings = [Reading((span(P1, "Either party", 6.0), span(P1, " may terminate", 5.0)), 1.0, 2)]
+    result = rank_answers("who?", [ScoredPassage(P1, 8.0)], readings, CAL)
+    assert [a.text for a in result.answers] == ["Either party", " may terminate"]
