@@ -26,8 +26,6 @@ import re
 import unicodedata
 from functools import lru_cache
 
-from nltk.stem import PorterStemmer
-
 MAX_TOKEN_CHARS = 64
 
 # The list of nltk's English stopwords (classic 179-word list), copied (from memory).
@@ -73,12 +71,17 @@ _TOKEN_RE = re.compile(
 )
 _REF_PART_RE = re.compile(r"\([a-z0-9]{1,5}\)")
 
-_STEMMER = PorterStemmer()
+@lru_cache(maxsize=1)
+def _stemmer():
+    """nltk's PorterStemmer, imported on first use: importing nltk costs over a second, which start-up need not pay."""
+    from nltk.stem import PorterStemmer
+
+    return PorterStemmer()
 
 
 @lru_cache(maxsize=200_000)
 def _stem(word: str) -> str:
-    return _STEMMER.stem(word, to_lowercase=False)
+    return _stemmer().stem(word, to_lowercase=False)
 
 
 def _normalise_amount(raw: str) -> str:
