@@ -283,3 +283,22 @@ def test_a_second_refresh_waits_for_the_first(fake, folder):
     worker.join(timeout=30)
     assert len(reports) == 1 and len(reports[0].indexed) == 4
     assert [p.name for p in idir.glob("*.npz")] == ["bm25-000001.npz"]
+
+
+def test_a_stopped_refresh_under_new_limits_leaves_old_failures_to_retry(fake, folder, monkeypatch):
+    """The ingest-limits key is stored only by a refresh that saw every file (indexer docstring), so failures that a
+    stopped run never reached are still retried by the next run under the new limits."""
+    _write(folder / "a_bad.txt", "BAD bytes")
+    _write(folder / "z_bad.txt", "BAD bytes")
+    assert {p.path for p in refresh_index(folder).failed} == {"a_bad.txt", "z_bad.txt"}
+    monkeypatch.setattr(defaults, "MAX_FILE_BYTES", defaults.MAX_FILE_BYTES + 1)  # new limits
+    fake.parsed.clear()
+    calls = []
+    stopped = refresh_index(folder, should_stop=lambda: calls.append(1) or len(calls) > 1)
+    assert stopped.stopped and fake.parsed == ["a_bad.txt"]  # the walk is sorted: z_bad.txt was never reached
+    fake.parsed.clear()
+    report = refresh_index(folder)
+    assert "z_bad.txt" in fake.parsed and {p.path for p in report.failed} == {"a_bad.txt", "z_bad.txt"}
+    fake.parsed.clear()
+    refresh_index(folder)  # limits unchanged since a full run: nothing is parsed again
+    assert fake.parsed == []
