@@ -18,7 +18,7 @@ from pathlib import Path
 from engine import defaults
 from engine.workspace import CAUTION
 
-COMMANDS = ("index", "ask", "evaluate", "train-reader", "calibrate-reader", "sweep", "export", "open")
+COMMANDS = ("index", "ask", "evaluate", "train-reader", "calibrate-reader", "average-readers", "sweep", "export", "open")
 
 
 def printable(name: str) -> str:
@@ -131,7 +131,7 @@ def run_open(args) -> int:
 
 
 def build_parser() -> argparse.ArgumentParser:
-    from engine.cli_train import add_calibrate_parser, add_evaluate_parser, add_train_parser
+    from engine.cli_train import add_average_parser, add_calibrate_parser, add_evaluate_parser, add_train_parser
 
     parser = argparse.ArgumentParser(
         prog="excerptor", description="Find and cite answers in a folder of agreements, offline.",
@@ -157,6 +157,7 @@ def build_parser() -> argparse.ArgumentParser:
     add_evaluate_parser(sub)
     add_train_parser(sub)
     add_calibrate_parser(sub)
+    add_average_parser(sub)
     from engine.cli_sweep import add_sweep_parser
 
     add_sweep_parser(sub)

@@ -95,6 +95,23 @@ def run_calibrate(args) -> int:
     return 0
 
 
+def add_average_parser(sub) -> None:
+    p = sub.add_parser("average-readers",
+                       help="average the weights of two readers from a common ancestor (then run calibrate-reader)")
+    p.add_argument("first", type=Path, help="reader folder (its config and tokenizer are copied)")
+    p.add_argument("second", type=Path, help="reader folder with the same architecture")
+    p.add_argument("--out", type=Path, required=True, help="folder to write the averaged, fp32 reader to")
+    p.add_argument("--alpha", type=float, default=0.5, help="weight of the second reader (default 0.5)")
+    p.set_defaults(handler=run_average)
+
+
+def run_average(args) -> int:
+    from engine.training.average import average_readers
+
+    print(average_readers(args.first, args.second, args.out, args.alpha))
+    return 0
+
+
 def reader_calibration(model_dir: Path) -> dict:
     path = Path(model_dir) / "excerptor.json"
     return json.loads(path.read_text(encoding="utf-8")) if path.exists() else {}

@@ -82,3 +82,28 @@ def test_swaps_on_a_real_training_file_keep_their_invariants():
         assert old in source.context
         added = [p for _, p, _ in swappable_phrases(neg.question) if p not in source.question]
         assert all(p.casefold() not in neg.context.casefold() for p in added)
+
+
+def test_average_readers_is_the_weighted_mean_of_each_tensor(tmp_path):
+    """theta = (1 - alpha) * theta_a + alpha * theta_b (Wortsman et al., 2022); values worked by hand."""
+    import torch
+    from safetensors.torch import load_file, save_file
+
+    from engine.training.average import average_readers
+
+    a, b = tmp_path / "a", tmp_path / "b"
+    for folder, w, bias in ((a, [[1.0, 2.0], [3.0, 4.0]], [0.0, 1.0]), (b, [[3.0, 2.0], [1.0, 0.0]], [4.0, 5.0])):
+        folder.mkdir()
+        save_file({"w": torch.tensor(w, dtype=torch.float16), "b": torch.tensor(bias)}, str(folder / "model.safetensors"))
+        (folder / "config.json").write_text("{}", encoding="utf-8")
+    out = average_readers(a, b, tmp_path / "soup", alpha=0.25)
+    merged = load_file(str(out / "model.safetensors"))
+    # 0.75 * [[1, 2], [3, 4]] + 0.25 * [[3, 2], [1, 0]] = [[1.5, 2], [2.5, 3]]; 0.75 * [0, 1] + 0.25 * [4, 5] = [1, 2].
+    assert merged["w"].dtype == torch.float32 and merged["w"].tolist() == [[1.5, 2.0], [2.5, 3.0]]
+    assert merged["b"].tolist() == [1.0, 2.0]
+    assert (out / "config.json").exists()
+    with pytest.raises(ValueError, match=r"got 1.5"):
+        average_readers(a, b, tmp_path / "bad", alpha=1.5)
+    save_file({"w": torch.zeros(3)}, str(b / "model.safetensors"))
+    with pytest.raises(ValueError, match="differ"):
+        average_readers(a, b, tmp_path / "bad")
