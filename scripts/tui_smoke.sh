@@ -2,7 +2,8 @@
 # Smoke test of the review app in a real terminal (tmux): open a temporary copy of demo_docs, ask one question,
 # and check that the expected answer and its page are on screen. Exit 0 on success (or skip), 1 on failure.
 #
-#   scripts/tui_smoke.sh          the real app with the committed reader (skips when models/reader-v1 is missing)
+#   scripts/tui_smoke.sh          the real app with the committed reader (skips when engine.defaults.READER_MODEL_DIR
+#                                 is missing)
 #   scripts/tui_smoke.sh --fake   the same screens with the test fake reader (checks this script itself)
 set -u
 
@@ -15,8 +16,9 @@ MODE="${1:-real}"
 if [ "$MODE" = "--fake" ]; then
     EXPECT_ANSWER="governed"  # the fake reader returns a 3-word span after the question words
 else
-    if [ ! -d "$ROOT/models/reader-v1" ]; then
-        echo "tui_smoke: SKIP: no reader model at models/reader-v1 (it is committed later); nothing was run."
+    MODEL_DIR="$(cd "$ROOT" && "$PY" -c 'from engine import defaults; print(defaults.READER_MODEL_DIR)')"
+    if [ ! -f "$ROOT/$MODEL_DIR/config.json" ]; then
+        echo "tui_smoke: SKIP: no reader model at $MODEL_DIR; nothing was run."
         exit 0
     fi
     EXPECT_ANSWER="Minnesota"  # tests/data/demo_questions.jsonl dq10: "State of Minnesota", land_lease.pdf p. 5
