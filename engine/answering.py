@@ -58,10 +58,10 @@ def rank_answers(
     best_margin = max(c[1] for c in candidates)
     if -best_margin > calibration.null_margin_threshold:
         return AskResult(question, (), True)
-    merged: dict[str, list] = {}
+    merged: dict[str, tuple] = {}  # key -> (margin, scored passage, span, citation, other citations)
     order: list[str] = []
     cited: list[Citation] = []
-    for fused, margin, scored, span in candidates:
+    for _, margin, scored, span in candidates:
         key = normalize_answer(span.text) or span.text.strip()
         if not key:
             continue
@@ -71,16 +71,16 @@ def rank_answers(
             continue
         cited.append(citation)
         if key not in merged:
-            merged[key] = [fused, margin, scored, span, []]
+            merged[key] = (margin, scored, span, citation, [])
             order.append(key)
-        elif citation not in merged[key][4] and citation != _citation_of(merged[key]):
+        elif citation != merged[key][3] and citation not in merged[key][4]:
             merged[key][4].append(citation)
     answers = []
     for key in order[:top_n]:
-        fused, margin, scored, span, others = merged[key]
+        margin, scored, span, citation, others = merged[key]
         confidence = calibration.confidence(margin)
         answers.append(Answer(
-            text=span.text, score=round(confidence, 6), citation=_citation_of(merged[key]),
+            text=span.text, score=round(confidence, 6), citation=citation,
             passage=scored.passage.text, passage_start=scored.passage.start,
             low_confidence=confidence < low_confidence_below, reader_logit=margin,
             retrieval_score=scored.bm25, also_found=tuple(others),
@@ -93,12 +93,6 @@ def overlaps(a: Citation, b: Citation) -> bool:
     """True when two citations share at least one character of the same page: a.start < b.end and b.start < a.end."""
     same_page = (a.file, a.page, a.locator) == (b.file, b.page, b.locator)
     return same_page and a.start < b.end and b.start < a.end
-
-
-def _citation_of(entry) -> Citation:
-    _, _, scored, span, _ = entry
-    p = scored.passage
-    return Citation(p.doc_path, p.page_number, p.locator, p.start + span.start, p.start + span.end)
 
 
 class Answerer:

@@ -65,6 +65,22 @@ def per_question_f1(predictions: dict[str, Prediction], examples: Sequence[Squad
     return {e.qid: max(f1_v1(predictions[e.qid].span_text, a.text) for a in e.answers) for e in examples if e.answers}
 
 
+def cites_gold(answer, question: dict, min_f1: float = 0.5) -> bool:
+    """Whole-folder hit: the answer cites the question's gold ``file`` and ``page`` and its token F1 with the gold
+    ``answer`` text is at least ``min_f1`` (the rule behind the demo-folder counts in MODEL_CARD.md and the tests)."""
+    return (answer.citation.file == question["file"] and answer.citation.page == question["page"]
+            and f1_v1(answer.text, question["answer"]) >= min_f1)
+
+
+def folder_hit_counts(results) -> dict[str, int]:
+    """Counts over (question, AskResult) pairs: hits at rank 1, hits anywhere in the listed answers, abstentions."""
+    results = list(results)
+    return {"questions": len(results),
+            "top1": sum(bool(r.answers) and cites_gold(r.answers[0], q) for q, r in results),
+            "listed": sum(any(cites_gold(a, q) for a in r.answers) for q, r in results),
+            "abstained": sum(r.abstained for q, r in results)}
+
+
 def paired_bootstrap(
     scores_a: Sequence[float], scores_b: Sequence[float], resamples: int = 2000, seed: int = 0
 ) -> tuple[float, float, float]:

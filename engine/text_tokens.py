@@ -71,6 +71,7 @@ _TOKEN_RE = re.compile(
 )
 _REF_PART_RE = re.compile(r"\([a-z0-9]{1,5}\)")
 
+
 @lru_cache(maxsize=1)
 def _stemmer():
     """nltk's PorterStemmer, imported on first use: importing nltk costs over a second, which start-up need not pay."""

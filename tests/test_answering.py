@@ -87,3 +87,20 @@ def test_overlapping_spans_of_one_clause_are_one_answer():
     readings = [Reading((span(P1, "Either party", 6.0), span(P1, " may terminate", 5.0)), 1.0, 2)]
     result = rank_answers("who?", [ScoredPassage(P1, 8.0)], readings, CAL)
     assert [a.text for a in result.answers] == ["Either party", " may terminate"]
+
+
+def test_folder_hit_counts_use_file_page_and_token_f1():
+    from engine.evaluation import cites_gold, folder_hit_counts
+
+    readings = [Reading((span(P1, "ninety (90) days", 6.0),), 1.0, 1),
+                Reading((span(P2, "in writing", 5.0),), 1.0, 1)]
+    result = rank_answers("notice?", [ScoredPassage(P1, 8.0), ScoredPassage(P2, 6.0)], readings, CAL)
+    first, second = result.answers
+    lease = {"file": "lease.pdf", "page": 3, "answer": "ninety (90) days' notice"}
+    # Official token F1, by hand: "ninety 90 days" vs "ninety 90 days notice" -> P = 1, R = 3/4, F1 = 6/7 >= 0.5.
+    assert cites_gold(first, lease) and not cites_gold(second, lease)
+    assert not cites_gold(first, dict(lease, page=4))  # right text, wrong page
+    supply = {"file": "supply.pdf", "page": 2, "answer": "ninety (90) days"}  # right place, F1 0 for "in writing"
+    abstained = rank_answers("guarantor?", [], [], CAL)
+    counts = folder_hit_counts([(lease, result), (supply, result), (lease, abstained)])
+    assert counts == {"questions": 3, "top1": 1, "listed": 1, "abstained": 1}

@@ -24,8 +24,7 @@ def consensus_index(answers: Sequence[str]) -> int:
     if len(answers) < 3:
         return 0
     scores = [sum(f1_v1(a, b) for j, b in enumerate(answers) if j != i) for i, a in enumerate(answers)]
-    best = max(scores)
-    return scores.index(best)
+    return scores.index(max(scores))
 
 
 def with_consensus_first(example: SquadExample) -> SquadExample:

@@ -17,10 +17,10 @@ import re
 from typing import Sequence
 
 from engine.squad_data import SquadExample
+from engine.training.features import LONG_CONTEXT_CHARS
 
 NAME_PATTERN = re.compile(r"(?<![.?!] )\b[A-Z][a-z]+(?:\s+(?:of\s+|the\s+|de\s+)?[A-Z][a-z]+)*\b")
 NUMBER_PATTERN = re.compile(r"\b\d[\d,.]*\d\b|\b\d\b")
-MAX_CONTEXT_CHARS = 2000
 
 
 def swappable_phrases(question: str) -> list[tuple[str, str, int]]:
@@ -51,7 +51,7 @@ def swapped_entity_negatives(
             by_title.setdefault((ex.title, kind), []).append(phrase)
     out: list[SquadExample] = []
     for ex in examples:
-        if ex.is_impossible or len(ex.context) > MAX_CONTEXT_CHARS or rng.random() >= rate:
+        if ex.is_impossible or len(ex.context) > LONG_CONTEXT_CHARS or rng.random() >= rate:
             continue
         candidates = [c for c in swappable_phrases(ex.question) if c[1] in ex.context]
         if not candidates:
