@@ -39,11 +39,13 @@ def run_train(args) -> int:
 
 
 def add_evaluate_parser(sub) -> None:
+    from engine.reader.transformer_reader import QUANTIZE_CHOICES
+
     p = sub.add_parser("evaluate", help="score the reader on SQuAD-format data with the official SQuAD metric")
     p.add_argument("data", type=Path, help="SQuAD-format .json or .json.gz")
     p.add_argument("--limit", type=int, default=None, help="first N questions only")
     p.add_argument("--model", type=Path, default=None, help="reader folder (default: the committed reader)")
-    p.add_argument("--quantize", default=None, help="none | attention | all-but-ffn-output | all")
+    p.add_argument("--quantize", default=None, help="one of: " + ", ".join(QUANTIZE_CHOICES))
     p.add_argument("--threshold", type=float, default=None,
                    help="no-answer margin for v2.0 data (default: the model's calibrated value)")
     p.add_argument("--json", action="store_true", help="print one JSON object")

@@ -71,3 +71,20 @@ def test_abstention_is_reported_per_kind_of_dev_negative():
     }
     # Hand-computed at threshold 1: topic-near 1 of 2, swapped 1 of 1, CUAD slice 0 of 1.
     assert abstention_by_kind(predictions, examples, 1.0) == {"cuad_slice": 0.0, "swapped": 100.0, "topic_near": 50.0}
+
+
+def test_fastest_within_loss_needs_every_dev_set_within_the_budget():
+    # The rule of the issue (the fastest variant losing <= 1.5 F1), applied per dev set; numbers made up for the rule.
+    from engine.training.calibrate import fastest_within_loss
+
+    variants = {
+        "none": {"dev_f1": 63.0, "cuad_dev_f1": 50.0, "ms_per_window": 48.0},
+        "attention": {"dev_f1": 62.9, "cuad_dev_f1": 49.8, "ms_per_window": 39.0},
+        "all-but-ffn-output": {"dev_f1": 62.0, "cuad_dev_f1": 48.5, "ms_per_window": 28.0},  # loses exactly 1.5
+        "all": {"dev_f1": 62.5, "cuad_dev_f1": 47.0, "ms_per_window": 22.0},  # contracts lose 3.0
+    }
+    assert fastest_within_loss(variants) == "all-but-ffn-output"
+    assert fastest_within_loss(variants, max_loss=1.0) == "attention"
+    assert fastest_within_loss(variants, max_loss=5.0) == "all"
+    with pytest.raises(ValueError, match=r"got \['all'\]"):
+        fastest_within_loss({"all": variants["all"]})

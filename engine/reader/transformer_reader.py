@@ -13,7 +13,10 @@ from engine.reader.decode import decode_spans, token_span_to_chars
 from engine.reader.interface import Reading, ReadSpan
 from engine.reader.windows import Window, build_windows, pad_batch
 
-QUANTIZE_CHOICES = ("none", "attention", "all-but-ffn-output", "all")
+QUANTIZE_CHOICES = (
+    "none", "attention", "all-but-ffn-output", "all", "all-but-ffn-output-per-channel", "all-per-channel",
+)
+PER_CHANNEL_SUFFIX = "-per-channel"
 
 
 def repository_root() -> Path:
@@ -31,14 +34,19 @@ def quantize_reader(model, mode: str):
 
     ``attention``: query/key/value/attention-output layers; ``all-but-ffn-output``: every Linear except each
     feed-forward block's output projection; ``all``: every Linear in the encoder (the span head stays fp32).
+    A ``-per-channel`` mode quantises the same layers with one weight scale per output row instead of one per
+    tensor (``per_channel_dynamic_qconfig``), which keeps more precision for rows with small weights.
     """
     import torch
-    from torch.ao.quantization import quantize_dynamic
+    from torch.ao.quantization import default_dynamic_qconfig, per_channel_dynamic_qconfig, quantize_dynamic
 
     if mode not in QUANTIZE_CHOICES:
         raise ValueError(f"quantize must be one of {QUANTIZE_CHOICES} (got {mode!r})")
     if mode == "none":
         return model
+    qconfig = default_dynamic_qconfig
+    if mode.endswith(PER_CHANNEL_SUFFIX):
+        mode, qconfig = mode[: -len(PER_CHANNEL_SUFFIX)], per_channel_dynamic_qconfig
     names = set()
     for name, module in model.named_modules():
         if not isinstance(module, torch.nn.Linear) or "qa_outputs" in name:
@@ -51,7 +59,7 @@ def quantize_reader(model, mode: str):
             names.add(name)
         elif mode == "all":
             names.add(name)
-    return quantize_dynamic(model, names, dtype=torch.qint8)
+    return quantize_dynamic(model, {name: qconfig for name in names}, dtype=torch.qint8)
 
 
 class TransformerReader:

@@ -1,0 +1,61 @@
+"""int8 variants of the committed reader, measured against its own fp32 logits (the reference here).
+
+Per-channel weight scales (one per output row) can only represent each row at least as finely as one scale for the
+whole tensor, so on the same layers their logits must sit closer to fp32 (Krishnamoorthi, 2018, "Quantizing deep
+convolutional networks for efficient inference", section 2: per-channel quantisation of weights; cited from memory).
+"""
+
+import copy
+
+import numpy as np
+import pytest
+
+from tests.shared_data import reader_dir
+
+pytestmark = pytest.mark.real_model
+
+CONTEXT = ("The lease of the grain store at Pellow Quay runs for five years from 1 March 2024. "
+           "Either party may end it by giving not less than ninety days' written notice.")
+QUESTION = "How much notice must be given to end the lease?"
+
+
+@pytest.fixture(scope="module")
+def model_and_inputs():
+    import torch
+    from transformers import AutoModelForQuestionAnswering, AutoTokenizer
+
+    torch.manual_seed(0)
+    folder = reader_dir()
+    tokenizer = AutoTokenizer.from_pretrained(folder, local_files_only=True)
+    model = AutoModelForQuestionAnswering.from_pretrained(folder, local_files_only=True).float().eval()
+    return model, tokenizer(QUESTION, CONTEXT, return_tensors="pt")
+
+
+def logits(model, inputs) -> np.ndarray:
+    import torch
+
+    with torch.inference_mode():
+        out = model(**inputs)
+    return np.concatenate([out.start_logits.numpy(), out.end_logits.numpy()])
+
+
+def test_per_channel_int8_tracks_fp32_closer_than_per_tensor(model_and_inputs):
+    from engine.reader.transformer_reader import quantize_reader
+
+    model, inputs = model_and_inputs
+    reference = logits(model, inputs)
+    error = {mode: np.abs(logits(quantize_reader(copy.deepcopy(model), mode), inputs) - reference).mean()
+             for mode in ("all", "all-per-channel", "all-but-ffn-output-per-channel")}
+    assert 0 < error["all-per-channel"] < error["all"]
+    assert error["all-but-ffn-output-per-channel"] < error["all-per-channel"]
+    # Every variant still points at the same best start and end token as fp32.
+    for mode in ("all-per-channel", "all-but-ffn-output-per-channel"):
+        q = logits(quantize_reader(copy.deepcopy(model), mode), inputs)
+        assert (q.argmax(axis=1) == reference.argmax(axis=1)).all()
+
+
+def test_unknown_quantize_mode_names_the_choices(model_and_inputs):
+    from engine.reader.transformer_reader import quantize_reader
+
+    with pytest.raises(ValueError, match=r"got 'int4'"):
+        quantize_reader(model_and_inputs[0], "int4")
