@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import re
 
-from tests.tui.tui_harness import GOVERNING_LAW, SIZE, ask, build_app, demo_copy, fake_workspace, run_async, settle
+from tests.tui.tui_harness import GOVERNING_LAW, ask, demo_copy, fake_workspace, run_async, running_app, settle
 from tui import palette
 from tui.answer_list import AnswerList
 from tui.document_screen import DocumentScreen
@@ -21,9 +21,7 @@ from tui.state import Scope, SourceSpan
 @run_async
 async def test_jump_page_find_and_back(tmp_path):
     folder = demo_copy(tmp_path)
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         await ask(pilot, GOVERNING_LAW)
         before = list(app.desk.query_one(AnswerList).answers)
         best = before[0]
@@ -81,9 +79,7 @@ async def test_jump_page_find_and_back(tmp_path):
 @run_async
 async def test_scope_to_document_and_subfolder_then_clear(tmp_path):
     folder = demo_copy(tmp_path)
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         await pilot.press("escape")  # out of the question box
         await pilot.press("s")
         await settle(pilot)
@@ -123,9 +119,7 @@ async def test_a_very_long_page_is_shown_in_blocks_and_still_scrolled_to_the_spa
     lines = [f"Line {i}: the parties agree to the ordinary terms of clause {i}." for i in range(1500)]
     lines[1234] = "Line 1234: the Supplier's liability is capped at two hundred thousand dollars."
     (folder / "long_terms.txt").write_text("\n".join(lines) + "\n", encoding="utf-8")
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         page = fake_workspace(folder).pages("long_terms.txt")[0]
         start = page.text.index("two hundred thousand dollars")
         end = start + len("two hundred thousand dollars")

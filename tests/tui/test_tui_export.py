@@ -11,7 +11,7 @@ import json
 from openpyxl import load_workbook
 
 from engine.review_store import LOG_COLUMNS
-from tests.tui.tui_harness import GOVERNING_LAW, SIZE, ask, build_app, demo_copy, run_async, settle
+from tests.tui.tui_harness import GOVERNING_LAW, ask, demo_copy, run_async, running_app, settle
 from textual.widgets import Input, RadioSet
 from tui.confirm_screen import ConfirmScreen
 from tui.export_screen import ExportScreen
@@ -28,9 +28,7 @@ async def _open_export(pilot) -> ExportScreen:
 @run_async
 async def test_export_formats_and_overwrite_confirmation(tmp_path):
     folder = demo_copy(tmp_path)
-    app = build_app(folder, export_dir=tmp_path)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder, export_dir=tmp_path) as (app, pilot):
         await ask(pilot, GOVERNING_LAW)
         await pilot.press("a")
         await pilot.pause()

@@ -12,7 +12,7 @@ from engine.checklist import load_checklist
 from engine.review_store import ReviewStore
 from engine.workspace import Workspace
 from tests.fakes import FAKE_CALIBRATION, FakeReader
-from tests.tui.tui_harness import SIZE, build_app, demo_copy, fake_workspace, run_async, settle
+from tests.tui.tui_harness import demo_copy, fake_workspace, run_async, running_app, settle
 from textual.widgets import DataTable, ProgressBar
 from tui import palette
 from tui.app import DEFAULT_CHECKLIST
@@ -44,9 +44,7 @@ async def test_sweep_fills_the_grid_and_cells_can_be_reviewed(tmp_path):
     folder = demo_copy(tmp_path)
     checklist_file = tmp_path / "small.checklist"
     checklist_file.write_text(SMALL, encoding="utf-8")
-    app = build_app(folder, checklist=checklist_file)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder, checklist=checklist_file) as (app, pilot):
         grid = await _sweep(pilot)
         checklist = load_checklist(checklist_file)
         documents = fake_workspace(folder).documents()
@@ -139,9 +137,7 @@ class GatedReader(FakeReader):
 async def test_sweep_progress_pause_and_resume(tmp_path):
     folder = demo_copy(tmp_path)
     reader = GatedReader()
-    app = build_app(folder, workspace=Workspace(folder, reader=reader, calibration=FAKE_CALIBRATION))
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder, workspace=Workspace(folder, reader=reader, calibration=FAKE_CALIBRATION)) as (app, pilot):
         await pilot.press("escape", "g")
         await settle(pilot)
         grid = app.screen

@@ -6,7 +6,7 @@ Oracles: the classes' own BINDINGS (every key must be listed) and engine.workspa
 from __future__ import annotations
 
 from engine.workspace import CAUTION
-from tests.tui.tui_harness import GOVERNING_LAW, SIZE, ask, build_app, demo_copy, run_async, settle
+from tests.tui.tui_harness import GOVERNING_LAW, ask, demo_copy, run_async, running_app, settle
 from textual.widgets import Static
 from tui.answer_list import AnswerList
 from tui.app import ExcerptorApp
@@ -28,9 +28,7 @@ def footer_actions(app) -> set[str]:
 @run_async
 async def test_help_lists_every_key_and_the_footer_follows_focus(tmp_path):
     folder = demo_copy(tmp_path)
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         # Typing a question: letter commands are hidden (they would be typed), Escape is offered.
         typing = footer_actions(app)
         assert "history" not in typing and "leave" in typing
@@ -56,9 +54,7 @@ async def test_help_lists_every_key_and_the_footer_follows_focus(tmp_path):
 @run_async
 async def test_command_palette_offers_the_main_actions(tmp_path):
     folder = demo_copy(tmp_path)
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         provider = ExcerptorCommands(app.screen)
         titles = [hit.text or str(hit.display) async for hit in provider.discover()]
         assert titles == [title for title, _, _ in COMMANDS]
@@ -87,9 +83,7 @@ async def test_command_palette_offers_the_main_actions(tmp_path):
 @run_async
 async def test_caution_is_visible_on_the_desk_and_the_grid(tmp_path):
     folder = demo_copy(tmp_path)
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         note = app.desk.query_one(CautionNote)
         assert CAUTION in note.content.plain  # the engine's exact wording
         assert note.region.height >= 1 and note.region.y == 0  # on screen, at the top

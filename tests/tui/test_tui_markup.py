@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import html
 
-from tests.tui.tui_harness import SIZE, ask, build_app, demo_copy, run_async, settle
+from tests.tui.tui_harness import ask, demo_copy, run_async, running_app, settle
 from tui.answer_list import AnswerList
 from tui.document_screen import DocumentScreen
 from tui.history_screen import HistoryScreen
@@ -31,9 +31,7 @@ async def test_brackets_in_names_and_questions_render_literally(tmp_path):
     (folder / "[bold]x[" / "].txt").write_text(
         "SHORT LEASE\n\nThis lease is governed by the laws of the State of Minnesota and markup law rules.\n",
         encoding="utf-8")
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         app.desk.scope = Scope(doc=NAME)
         await pilot.pause()
         assert f"document {NAME}" in app.desk.query_one(QuestionBar).query_one("#scope-chip").content.plain

@@ -12,8 +12,8 @@ from pypdf import PdfReader
 
 from engine.workspace import Workspace
 from tests.fakes import FAKE_CALIBRATION, FakeReader
-from tests.tui.tui_harness import (DEMO, GOVERNING_LAW, SIZE, ask, build_app, demo_copy, fake_workspace,
-                                   run_async, settle)
+from tests.tui.tui_harness import (DEMO, GOVERNING_LAW, SIZE, ask, build_app, demo_copy, fake_workspace, run_async,
+                                   running_app, settle)
 from textual.widgets import Input, ProgressBar, Static
 from tui import palette
 from tui.answer_list import NO_ANSWER, AnswerList
@@ -83,9 +83,7 @@ async def test_indexing_runs_in_background_with_progress(tmp_path):
 async def test_failed_files_are_listed_with_reasons(tmp_path):
     folder = demo_copy(tmp_path)
     (folder / "damaged.pdf").write_bytes(b"%PDF-1.4\nthis is not a real PDF body\n")
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         report = app.desk.report
         assert [p.path for p in report.failed] == ["damaged.pdf"]  # oracle: the engine's IndexReport
         await pilot.press("escape")  # leave the question box so letter keys act as commands
@@ -99,9 +97,7 @@ async def test_failed_files_are_listed_with_reasons(tmp_path):
 @run_async
 async def test_ask_shows_ranked_answers_and_their_source(tmp_path):
     folder = demo_copy(tmp_path)
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         await ask(pilot, GOVERNING_LAW, typed=len("land lease?"))
         shown = app.desk.query_one(AnswerList).answers
         # Oracle: the same question asked directly of a second workspace over the same index.
@@ -140,9 +136,7 @@ async def test_ask_shows_ranked_answers_and_their_source(tmp_path):
 @run_async
 async def test_abstention_says_so_plainly(tmp_path):
     folder = demo_copy(tmp_path)
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         await ask(pilot, "Qwzxv plorkt?")
         assert fake_workspace(folder).ask("Qwzxv plorkt?").abstained  # oracle: the engine abstains
         answer_list = app.desk.query_one(AnswerList)
@@ -183,9 +177,7 @@ async def test_reader_loads_once_in_background_with_status(tmp_path):
 async def test_slash_in_an_empty_question_box_is_not_typed(tmp_path):
     """A user told "press / to ask" presses it while the box already has focus: no stray "/" in the question."""
     folder = demo_copy(tmp_path)
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         box = app.desk.query_one(Input)
         box.focus()
         await pilot.press("slash", "slash", "a", "slash", "b")

@@ -9,7 +9,7 @@ from __future__ import annotations
 import sqlite3
 
 from engine.review_store import ReviewStore
-from tests.tui.tui_harness import GOVERNING_LAW, SIZE, ask, build_app, demo_copy, run_async, settle
+from tests.tui.tui_harness import GOVERNING_LAW, ask, demo_copy, run_async, running_app
 from tui.answer_list import AnswerList
 from tui.history_screen import HistoryScreen
 from tui.text_prompt_screen import TextPromptScreen
@@ -26,9 +26,7 @@ def stored(folder, answer_id: int):
 @run_async
 async def test_review_actions_are_saved_then_shown(tmp_path):
     folder = demo_copy(tmp_path)
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         await ask(pilot, GOVERNING_LAW)
         answer_list = app.desk.query_one(AnswerList)
         first = answer_list.answers[0]
@@ -79,9 +77,7 @@ async def test_review_actions_are_saved_then_shown(tmp_path):
 @run_async
 async def test_decision_not_shown_when_the_store_fails(tmp_path):
     folder = demo_copy(tmp_path)
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         await ask(pilot, GOVERNING_LAW)
 
         def broken(*args, **kwargs):
@@ -99,9 +95,7 @@ async def test_decision_not_shown_when_the_store_fails(tmp_path):
 @run_async
 async def test_history_reopens_a_question_with_its_decisions(tmp_path):
     folder = demo_copy(tmp_path)
-    app = build_app(folder)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot)
+    async with running_app(folder) as (app, pilot):
         await ask(pilot, GOVERNING_LAW)
         await pilot.press("a")
         await pilot.pause()

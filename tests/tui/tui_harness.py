@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import asyncio
 import atexit
+import contextlib
 import functools
 import shutil
 import tempfile
@@ -65,6 +66,15 @@ def build_app(folder: Path, **kwargs) -> ExcerptorApp:
     if "workspace" not in kwargs and "workspace_factory" not in kwargs:
         kwargs["workspace"] = fake_workspace(folder)
     return ExcerptorApp(folder, **kwargs)
+
+
+@contextlib.asynccontextmanager
+async def running_app(folder: Path, **kwargs):
+    """``build_app(folder, **kwargs)`` running under Pilot at SIZE, settled after start-up; yields (app, pilot)."""
+    app = build_app(folder, **kwargs)
+    async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot)
+        yield app, pilot
 
 
 async def settle(pilot, rounds: int = 5) -> None:
