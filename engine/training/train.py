@@ -219,6 +219,7 @@ def train(config: TrainConfig) -> Path:
 
     from engine.training.features import build_train_windows
 
+    bf16 = use_bf16(config.bf16)  # a bad setting fails here, before data preparation
     out_dir = Path(config.out_dir)
     out_dir.mkdir(parents=True, exist_ok=True)
     torch.set_num_threads(config.threads)
@@ -254,7 +255,6 @@ def train(config: TrainConfig) -> Path:
         for _ in range(step):
             scheduler.step()
         log(out_dir, f"resumed at step {step}")
-    bf16 = use_bf16(config.bf16)
     log(out_dir, f"training {total} steps of batch {config.batch_size}, warmup {warmup}, bf16 autocast {bf16}")
     started, running, seen = time.time(), 0.0, 0
     while step < total:
