@@ -88,3 +88,36 @@ def test_fastest_within_loss_needs_every_dev_set_within_the_budget():
     assert fastest_within_loss(variants, max_loss=5.0) == "all"
     with pytest.raises(ValueError, match=r"got \['all'\]"):
         fastest_within_loss({"all": variants["all"]})
+
+
+class _ClockedReader:
+    """A stand-in reader: each read of n pairs advances a shared fake clock by its cost per window."""
+
+    def __init__(self, clock, cost_ms):
+        self.clock, self.cost_ms, self.windows_read = clock, list(cost_ms), 0
+
+    def read_pairs(self, pairs, n_best=1):
+        self.windows_read += len(pairs)
+        self.clock.now += len(pairs) * self.cost_ms.pop(0) / 1000.0
+
+
+class _FakeClock:
+    now = 0.0
+
+    def __call__(self):
+        return self.now
+
+
+def test_interleaved_timing_takes_the_median_round_per_variant():
+    # Hand-made costs: a slow spell in round 2 hits both readers; the median (a published robust statistic) drops it.
+    from engine.training.calibrate import interleaved_ms_per_window
+
+    clock = _FakeClock()
+    readers = {
+        "none": _ClockedReader(clock, [999.0, 40.0, 90.0, 41.0]),  # first cost is the untimed warm-up
+        "all": _ClockedReader(clock, [999.0, 30.0, 80.0, 29.0]),
+    }
+    speeds = interleaved_ms_per_window(readers, [("q", "c")] * 4, rounds=3, clock=clock)
+    assert speeds == {"none": pytest.approx(41.0), "all": pytest.approx(30.0)}
+    with pytest.raises(ValueError, match=r"got rounds=0"):
+        interleaved_ms_per_window(readers, [("q", "c")], rounds=0, clock=clock)
