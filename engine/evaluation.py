@@ -89,14 +89,31 @@ def paired_bootstrap(
     The paired bootstrap (Efron and Tibshirani, 1993; Koehn, 2004): draw n question indices with replacement,
     take the mean difference, repeat; the 2.5th and 97.5th percentiles bound the interval.
     """
-    a = np.asarray(scores_a, dtype=np.float64)
-    b = np.asarray(scores_b, dtype=np.float64)
-    if a.shape != b.shape or a.ndim != 1 or a.size == 0:
-        raise ValueError(f"need two paired, non-empty 1-D score lists (got {a.shape} and {b.shape})")
+    return stratified_paired_bootstrap([(scores_a, scores_b)], resamples, seed)
+
+
+def stratified_paired_bootstrap(
+    strata: Sequence[tuple[Sequence[float], Sequence[float]]], resamples: int = 2000, seed: int = 0
+) -> tuple[float, float, float]:
+    """The paired bootstrap of ``(1/S) * sum over strata of mean(b - a)``: each dev set counts equally.
+
+    Questions are resampled within their own stratum (set), so a small set keeps its size in every resample
+    (the stratified bootstrap, Efron and Tibshirani, 1993, section 6.8). With one stratum it is ``paired_bootstrap``.
+    """
+    if not strata:
+        raise ValueError("need at least one stratum (got 0)")
     if resamples < 1:
         raise ValueError(f"resamples must be >= 1 (got {resamples})")
-    diff = b - a
     rng = np.random.default_rng(seed)
-    means = diff[rng.integers(0, diff.size, size=(resamples, diff.size))].mean(axis=1)
-    low, high = np.percentile(means, [2.5, 97.5])
-    return float(diff.mean()), float(low), float(high)
+    total_mean, total_draws = 0.0, np.zeros(resamples)
+    for scores_a, scores_b in strata:
+        a = np.asarray(scores_a, dtype=np.float64)
+        b = np.asarray(scores_b, dtype=np.float64)
+        if a.shape != b.shape or a.ndim != 1 or a.size == 0:
+            raise ValueError(f"need two paired, non-empty 1-D score lists (got {a.shape} and {b.shape})")
+        diff = b - a
+        total_mean += diff.mean()
+        total_draws += diff[rng.integers(0, diff.size, size=(resamples, diff.size))].mean(axis=1)
+    n = len(strata)
+    low, high = np.percentile(total_draws / n, [2.5, 97.5])
+    return float(total_mean / n), float(low), float(high)

@@ -90,6 +90,31 @@ def test_fastest_within_loss_needs_every_dev_set_within_the_budget():
         fastest_within_loss({"all": variants["all"]})
 
 
+def test_fastest_within_loss_also_needs_the_confidence_bound_within_the_budget():
+    # Numbers made up for the rule: "all" loses only 0.5 and 1.0 on the point estimates, but its 95 % bound is 2.4.
+    from engine.training.calibrate import fastest_within_loss
+
+    variants = {
+        "none": {"dev_f1": 63.0, "cuad_dev_f1": 50.0, "ms_per_window": 48.0, "loss_bound": 0.0},
+        "attention": {"dev_f1": 62.8, "cuad_dev_f1": 49.9, "ms_per_window": 41.0, "loss_bound": 1.2},
+        "all": {"dev_f1": 62.5, "cuad_dev_f1": 49.0, "ms_per_window": 36.0, "loss_bound": 2.4},
+    }
+    assert fastest_within_loss(variants) == "attention"
+    variants["attention"]["loss_bound"] = 1.6
+    assert fastest_within_loss(variants) == "none"  # fp32 qualifies even when it is not the fastest
+
+
+def test_loss_upper_bound_is_the_equal_weight_loss_in_f1_points():
+    # Hand-computed: constant per-question losses of 0.1 (TyDi) and 0.3 (CUAD) average to 0.2, i.e. 20 F1 points,
+    # and leave nothing to resample; a variant better than fp32 is bounded at 0.
+    from engine.training.calibrate import loss_upper_bound
+
+    base = [{"t1": 0.6, "t2": 0.9}, {"c1": 0.5, "c2": 0.8, "c3": 1.0}]
+    worse = [{"t1": 0.5, "t2": 0.8}, {"c1": 0.2, "c2": 0.5, "c3": 0.7}]
+    assert loss_upper_bound(base, worse) == pytest.approx(20.0)
+    assert loss_upper_bound(worse, base) == 0.0
+
+
 class _ClockedReader:
     """A stand-in reader: each read of n pairs advances a shared fake clock by its cost per window."""
 

@@ -97,3 +97,23 @@ def test_paired_bootstrap_agrees_with_scipy():
                                 random_state=3).confidence_interval
     assert gain == pytest.approx(float(np.mean(new - old)))
     assert low == pytest.approx(reference.low, abs=0.006) and high == pytest.approx(reference.high, abs=0.006)
+
+
+def test_stratified_bootstrap_weights_sets_equally_and_matches_the_stratified_normal_approximation():
+    """Stratified bootstrap (Efron and Tibshirani, 1993, section 6.8). The estimate is the plain average of the
+    per-set mean differences, whatever the set sizes. Its standard error is the stratified-sampling formula
+    (1/S) * sqrt(sum of var_s / n_s), the variance of a stratified mean with equal weights (Cochran, 1977,
+    "Sampling Techniques", chapter 5; cited from memory): for a set of
+    400 differences half 0 and half 1 (variance 0.25) and a set of 100 constant differences of 0.2, the mean is
+    (0.5 + 0.2) / 2 = 0.35 and the 95 % interval is 0.35 +/- 1.96 * 0.5 * sqrt(0.25 / 400) = [0.3255, 0.3745]."""
+    from engine.evaluation import stratified_paired_bootstrap
+
+    strata = [([0.0] * 400, [0.0, 1.0] * 200), ([0.5] * 100, [0.7] * 100)]
+    mean, low, high = stratified_paired_bootstrap(strata, resamples=4000, seed=1)
+    assert mean == pytest.approx(0.35)
+    assert low == pytest.approx(0.3255, abs=0.004) and high == pytest.approx(0.3745, abs=0.004)
+    # Constant differences of 1 (10 questions) and 3 (1,000 questions): equal weights give 2, not the pooled 2.98.
+    assert stratified_paired_bootstrap([([0.0] * 10, [1.0] * 10), ([0.0] * 1000, [3.0] * 1000)]) == pytest.approx(
+        (2.0, 2.0, 2.0))
+    with pytest.raises(ValueError, match=r"got 0"):
+        stratified_paired_bootstrap([])

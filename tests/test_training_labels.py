@@ -107,3 +107,43 @@ def test_average_readers_is_the_weighted_mean_of_each_tensor(tmp_path):
     save_file({"w": torch.zeros(3)}, str(b / "model.safetensors"))
     with pytest.raises(ValueError, match="differ"):
         average_readers(a, b, tmp_path / "bad")
+
+
+def test_removing_the_answer_sentence_leaves_an_unanswerable_paragraph():
+    # Hand-made paragraph (invented): the answer sits in the second of four sentences.
+    from engine.training.removal_negatives import removed_sentence_negatives, without_answer_sentences
+
+    context = ("The Harbour Bridge crosses the Lantern River. It was designed by Jones in 1901. "
+               "Trams ran across it until 1958. Today it carries cyclists.")
+    ex = SquadExample("q", "Bridges", "Who designed the Harbour Bridge?", context,
+                      (GoldAnswer("Jones", context.index("Jones")),), False)
+    assert without_answer_sentences(ex) == ("The Harbour Bridge crosses the Lantern River. "
+                                            "Trams ran across it until 1958. Today it carries cyclists.")
+    (neg,) = removed_sentence_negatives([ex], random.Random(0), rate=1.0)
+    assert neg.qid == "q#r" and neg.is_impossible and neg.answers == () and neg.question == ex.question
+    # The answer text also in a kept sentence: no fair negative. Too little left: none either.
+    repeated = SquadExample("r", "Bridges", ex.question, context + " Jones also built the quay.",
+                            ex.answers, False)
+    assert without_answer_sentences(repeated) is None
+    short = "It was designed by Jones in 1901. Today it carries cyclists."
+    assert without_answer_sentences(SquadExample("s", "B", ex.question, short,
+                                                 (GoldAnswer("Jones", short.index("Jones")),), False)) is None
+    assert removed_sentence_negatives([ex], random.Random(0), rate=0.0) == []
+    with pytest.raises(ValueError, match=r"got 1.5"):
+        removed_sentence_negatives([ex], random.Random(0), rate=1.5)
+
+
+def test_answer_sentence_removal_on_a_real_training_file_keeps_its_invariants():
+    from engine.sentences import split_sentences
+    from engine.training.removal_negatives import MIN_KEPT_SENTENCES, removed_sentence_negatives
+
+    items = load_examples(shared_file("train/tydiqa_goldp_en_train.json.gz"), limit=1500)
+    by_id = {e.qid: e for e in items}
+    negatives = removed_sentence_negatives(items, random.Random(3), rate=0.5)
+    assert len(negatives) > 50
+    for neg in negatives:
+        source = by_id[neg.qid.removesuffix("#r")]
+        assert len(neg.context) < len(source.context) and neg.is_impossible
+        assert not any(a.text.casefold() in neg.context.casefold() for a in source.answers)
+        kept = [source.context[s:e] for s, e in split_sentences(source.context) if source.context[s:e] in neg.context]
+        assert len(kept) >= MIN_KEPT_SENTENCES

@@ -35,6 +35,7 @@ class TrainConfig:
     same_title_negative_rate: float = 0.0  # share of general questions also paired with another paragraph
     swap_negative_rate: float = 0.0  # share of general questions also given a swapped-name/number unanswerable twin
     rewrite_negative_rate: float = 0.0  # share of general questions also given a negated or antonym unanswerable twin
+    removal_negative_rate: float = 0.0  # share of general questions also paired with their paragraph minus the answer
     consensus_labels: bool = False  # label with the medoid of several gold answers instead of the first
     seed: int = 13
     max_length: int = 256
@@ -91,6 +92,7 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
     from engine.squad_data import iter_examples, load_examples, read_squad_json
     from engine.training.features import expand_examples, same_title_negatives
     from engine.training.label_choice import with_consensus_first
+    from engine.training.removal_negatives import removed_sentence_negatives
     from engine.training.rewrite_negatives import rewritten_negatives
     from engine.training.swap_negatives import swapped_entity_negatives
 
@@ -119,6 +121,7 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
             negatives = same_title_negatives(items, rng, config.same_title_negative_rate)
             swapped = swapped_entity_negatives(items, rng, config.swap_negative_rate)
             rewritten = rewritten_negatives(items, rng, config.rewrite_negative_rate)
+            removed = removed_sentence_negatives(items, rng, config.removal_negative_rate)
             items = expand_examples(items, rng, config.long_negatives_per_example)
             if negatives:
                 counts[entry + " same-title negatives"] = len(negatives)
@@ -129,6 +132,9 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
             if rewritten:
                 counts[entry + " rewritten negatives"] = len(rewritten)
                 items += rewritten
+            if removed:
+                counts[entry + " answer-sentence-removed negatives"] = len(removed)
+                items += removed
         counts[entry] = len(items)
         examples.extend(items)
     if config.synthetic_windows:
