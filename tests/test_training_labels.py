@@ -65,13 +65,17 @@ def test_swapped_questions_name_something_the_context_lacks():
         swapped_entity_negatives(items, random.Random(0), rate=-0.1)
 
 
-def test_swaps_on_a_real_training_file_keep_their_invariants():
+def negatives_with_sources(make_negatives, suffix: str):
+    """(negative, the question it came from) pairs, made at rate 0.5 from the first 1,500 TyDi-en train questions."""
     items = load_examples(shared_file("train/tydiqa_goldp_en_train.json.gz"), limit=1500)
     by_id = {e.qid: e for e in items}
-    negatives = swapped_entity_negatives(items, random.Random(3), rate=0.5)
-    assert len(negatives) > 100
-    for neg in negatives:
-        source = by_id[neg.qid.removesuffix("#s")]
+    return [(neg, by_id[neg.qid.removesuffix(suffix)]) for neg in make_negatives(items, random.Random(3), rate=0.5)]
+
+
+def test_swaps_on_a_real_training_file_keep_their_invariants():
+    pairs = negatives_with_sources(swapped_entity_negatives, "#s")
+    assert len(pairs) > 100
+    for neg, source in pairs:
         assert neg.context == source.context and neg.question != source.question
         # Exactly one phrase was replaced, in place: the text before and after it is unchanged.
         head = next(i for i, (a, b) in enumerate(zip(source.question, neg.question)) if a != b)
@@ -137,12 +141,9 @@ def test_answer_sentence_removal_on_a_real_training_file_keeps_its_invariants():
     from engine.sentences import split_sentences
     from engine.training.removal_negatives import MIN_KEPT_SENTENCES, removed_sentence_negatives
 
-    items = load_examples(shared_file("train/tydiqa_goldp_en_train.json.gz"), limit=1500)
-    by_id = {e.qid: e for e in items}
-    negatives = removed_sentence_negatives(items, random.Random(3), rate=0.5)
-    assert len(negatives) > 50
-    for neg in negatives:
-        source = by_id[neg.qid.removesuffix("#r")]
+    pairs = negatives_with_sources(removed_sentence_negatives, "#r")
+    assert len(pairs) > 50
+    for neg, source in pairs:
         assert len(neg.context) < len(source.context) and neg.is_impossible
         assert not any(a.text.casefold() in neg.context.casefold() for a in source.answers)
         kept = [source.context[s:e] for s, e in split_sentences(source.context) if source.context[s:e] in neg.context]

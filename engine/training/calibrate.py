@@ -29,7 +29,7 @@ import numpy as np
 from engine.bm25 import Bm25Index
 from engine.calibration import Calibration, fit_logistic
 from engine.evaluation import per_question_f1, predict_examples, stratified_paired_bootstrap
-from engine.metrics import f1_v1, f1_v2, score_v1
+from engine.metrics import f1_v1, f1_v2
 from engine.squad_data import SquadExample, load_examples
 from engine.text_tokens import tokenize_for_search
 from engine.training.features import expand_examples
@@ -226,11 +226,6 @@ def interleaved_ms_per_window(readers: dict, pairs: list[tuple[str, str]], round
             reader.read_pairs(pairs, n_best=1)
             samples[name].append(1000.0 * (clock() - started) / max(1, reader.windows_read - windows_before))
     return {name: float(np.median(values)) for name, values in samples.items()}
-
-
-def _f1(predictions, examples) -> float:
-    return score_v1({k: v.text for k, v in predictions.items()}, {e.qid: [a.text for a in e.answers]
-                                                                  for e in examples}).f1
 
 
 def fastest_within_loss(variants: dict[str, dict], max_loss: float = MAX_F1_LOSS) -> str:
