@@ -63,14 +63,19 @@ def one_line(text: str) -> str:
 
 
 def snippet(passage: str, start: int, end: int, words: int = 4) -> Text:
-    """A one-line view: ``words`` words either side of the span, the span emphasised, whitespace collapsed."""
-    before = " ".join(passage[:start].split()[-words:])
-    after = " ".join(passage[end:].split()[:words])
+    """A one-line view: ``words`` words either side of the span, the span emphasised, whitespace collapsed.
+
+    The span joins its neighbours with a space only where the passage has whitespace there ("days' notice" keeps
+    its apostrophe against the span "days").
+    """
+    head, tail = passage[:start], passage[end:]
+    before = " ".join(head.split()[-words:])
+    after = " ".join(tail.split()[:words])
     middle = " ".join(passage[start:end].split())
     out = Text(end="")
-    out.append("…" + before + " " if before else "", palette.MUTED)
+    out.append("…" + before + (" " if head[-1:].isspace() else "") if before else "", palette.MUTED)
     out.append(middle, "bold underline")
-    out.append(" " + after + "…" if after else "", palette.MUTED)
+    out.append((" " if tail[:1].isspace() else "") + after + "…" if after else "", palette.MUTED)
     return out
 
 

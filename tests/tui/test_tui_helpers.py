@@ -42,6 +42,11 @@ def test_snippet_and_one_line():
     start = passage.index("$1,150")
     text = snippet(passage, start, start + len("$1,150 per acre"), words=3)
     assert text.plain == "…Operating Rent of $1,150 per acre per year, payable…"
+    clause = "by giving Landlord not less than ninety (90) days' prior written notice."
+    start = clause.index("ninety")
+    text = snippet(clause, start, start + len("ninety (90) days"), words=2)
+    assert text.plain == "…less than ninety (90) days' prior…"
+    assert snippet("(ninety)", 1, 7, words=2).plain == "…(ninety)…"
     assert one_line("State of\n  Minnesota") == "State of Minnesota"
 
 
