@@ -62,3 +62,20 @@ def test_demo_questions_cite_the_right_file_and_page(demo_results):
     # Measured when reader-v4 was committed: top-1 26/35, top-3 30/35 (MODEL_CARD.md); floors leave a margin.
     assert top1 >= 0.6 * len(demo_results), misses
     assert top3 >= 0.7 * len(demo_results), misses
+
+
+def test_loading_the_reader_writes_no_progress_bar_and_leaves_transformers_setting_alone(capfd):
+    from transformers.utils import logging as transformers_logging
+
+    from engine.reader.transformer_reader import TransformerReader
+
+    was_enabled = transformers_logging.is_progress_bar_enabled()
+    transformers_logging.enable_progress_bar()  # the library's default, whatever the environment set
+    try:
+        capfd.readouterr()
+        TransformerReader(reader_dir())
+        assert "Loading weights" not in capfd.readouterr().err
+        assert transformers_logging.is_progress_bar_enabled()
+    finally:
+        if not was_enabled:
+            transformers_logging.disable_progress_bar()

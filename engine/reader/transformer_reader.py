@@ -68,6 +68,19 @@ def quantize_reader(model, mode: str):
         return quantize_dynamic(model, {name: qconfig for name in names}, dtype=torch.qint8)
 
 
+def _quietly(load):
+    """Runs ``load`` without transformers' "Loading weights" progress bar on stderr (the app and CLI own the terminal)."""
+    from transformers.utils import logging as transformers_logging
+
+    was_enabled = transformers_logging.is_progress_bar_enabled()
+    transformers_logging.disable_progress_bar()
+    try:
+        return load()
+    finally:
+        if was_enabled:
+            transformers_logging.enable_progress_bar()
+
+
 class TransformerReader:
     """Reads spans with an ``AutoModelForQuestionAnswering`` from a local folder; never touches the network."""
 
@@ -96,9 +109,9 @@ class TransformerReader:
             torch.set_num_threads(threads)
         self.quantize = quantize or read_default_quantize(self.model_dir)
         self.tokenizer = AutoTokenizer.from_pretrained(self.model_dir, local_files_only=True)
-        model = AutoModelForQuestionAnswering.from_pretrained(
+        model = _quietly(lambda: AutoModelForQuestionAnswering.from_pretrained(
             self.model_dir, local_files_only=True, use_safetensors=True, dtype=torch.float32
-        )
+        ))
         model.eval()
         self.model = quantize_reader(model, self.quantize)
         self.batch_size = batch_size
