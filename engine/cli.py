@@ -26,6 +26,12 @@ def printable(name: str) -> str:
     return "".join(ch if ch.isprintable() else repr(ch)[1:-1] for ch in name)
 
 
+def quoted_span(text: str) -> str:
+    """An answer on one quoted line: the page's line breaks and runs of spaces shown as single spaces (the
+    character offsets printed beside it, and ``--json``, keep the exact text)."""
+    return repr(" ".join(text.split()))
+
+
 def answer_json(result, folder: Path) -> dict:
     """The CLI's JSON schema for one question."""
     return {
@@ -47,7 +53,7 @@ def print_readable(result) -> None:
     for rank, a in enumerate(result.answers, 1):
         flag = "  [LOW CONFIDENCE]" if a.low_confidence else ""
         where = f"{printable(a.citation.file)}, {a.citation.locator}"
-        print(f"{rank:>2}. {a.text!r}  confidence {a.score:.2f}{flag}\n    {where}, characters {a.citation.start}-{a.citation.end}")
+        print(f"{rank:>2}. {quoted_span(a.text)}  confidence {a.score:.2f}{flag}\n    {where}, characters {a.citation.start}-{a.citation.end}")
     print(f"\n{CAUTION}")
 
 

@@ -66,6 +66,8 @@ def cell_json(cell) -> dict:
 
 
 def print_summary(report: SweepReport, checklist: Checklist, cells: list) -> None:
+    from engine.cli import quoted_span
+
     n_docs = len({c.doc_path for c in cells})
     print(f"checklist {report.checklist}: {n_docs} documents x {len(checklist.items)} questions = "
           f"{report.cells_total} cells; swept {report.cells_swept}, up to date {report.cells_skipped}, "
@@ -79,7 +81,7 @@ def print_summary(report: SweepReport, checklist: Checklist, cells: list) -> Non
             print(f"  {cell.label}: (no answer found)")
             continue
         flag = "  [LOW CONFIDENCE]" if cell.low_confidence else ""
-        print(f"  {cell.label}: {cell.answer!r}  confidence {cell.score:.2f}{flag}  "
+        print(f"  {cell.label}: {quoted_span(cell.answer)}  confidence {cell.score:.2f}{flag}  "
               f"({cell.locator}, characters {cell.start}-{cell.end})")
 
 

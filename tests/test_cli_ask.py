@@ -76,3 +76,18 @@ def test_bad_question_file_is_a_clear_error(folder, tmp_path, capsys):
     qfile.write_text('{"id": "a"}\n')
     assert main(["ask", str(folder), "--questions", str(qfile), "--json"]) == 2
     assert "line 1" in capsys.readouterr().err
+
+
+def test_readable_answer_stays_on_one_line_and_keeps_its_exact_offsets(capsys):
+    from engine.cli import print_readable, quoted_span
+    from engine.types import Answer, AskResult, Citation
+
+    page = "Tenant may renew for one (1) additional period of ten (10)\nyears on notice."
+    start = page.index("one (1)")
+    end = page.index(" on notice")
+    answer = Answer(page[start:end], 0.8, Citation("lease.pdf", 2, "p. 2", start, end), page, 0)
+    print_readable(AskResult("How long is the renewal?", (answer,), False))
+    out = capsys.readouterr().out
+    assert " 1. 'one (1) additional period of ten (10) years'  confidence 0.80\n" in out
+    assert f"lease.pdf, p. 2, characters {start}-{end}" in out
+    assert quoted_span("a\n\n  b") == "'a b'"
