@@ -43,9 +43,9 @@ def run(reader, examples, v2: bool, threshold: float | None) -> dict:
         no_threshold = score_v2({k: v.span_text for k, v in predictions.items()}, golds).as_dict()
         scores["has_ans_f1_without_threshold"] = no_threshold["has_ans_f1"]
         if any(e.answers for e in examples) and any(not e.answers for e in examples):
-            # Report-only view of this test file's threshold curve: the most that any single threshold could abstain
+            # Report-only view of this file's threshold curve: the most that any single threshold could abstain
             # while HasAns F1 stays within ORACLE_HASANS_BUDGET of answering everything. Nothing is picked from it.
-            scores["test_curve_at_5pt_budget"] = budget_threshold(predictions, examples, ORACLE_HASANS_BUDGET)
+            scores["threshold_curve_at_5pt_budget"] = budget_threshold(predictions, examples, ORACLE_HASANS_BUDGET)
     return scores
 
 
