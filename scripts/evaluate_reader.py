@@ -95,8 +95,9 @@ def main() -> int:
     parser.add_argument("--cuad-sample", type=int, default=150)
     parser.add_argument("--skip-squad-full", action="store_true")
     parser.add_argument("--squad-sample", type=int, default=0, help="random N questions of each SQuAD dev file (0 = all)")
-    parser.add_argument("--only", nargs="*", default=None, help="sections to run (default: all): variants demo demo_folder cuad_dev xquad300 tydi "
-                        "squad (= squad_v1 squad_v2) cuad")
+    parser.add_argument("--only", nargs="*", default=None,
+                        help="sections to run (default: all): variants demo demo_folder cuad_dev xquad300 tydi "
+                             "squad (= squad_v1 squad_v2) cuad")
     args = parser.parse_args()
     args.model = args.model.resolve()
     calibration = load_calibration(args.model)
