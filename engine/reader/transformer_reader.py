@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import os
 import warnings
+from contextlib import contextmanager
 from pathlib import Path
 from typing import Sequence
 
@@ -68,14 +69,16 @@ def quantize_reader(model, mode: str):
         return quantize_dynamic(model, {name: qconfig for name in names}, dtype=torch.qint8)
 
 
-def _quietly(load):
-    """Runs ``load`` without transformers' "Loading weights" progress bar on stderr (the app and CLI own the terminal)."""
+@contextmanager
+def _no_progress_bar():
+    """Keeps transformers' "Loading weights" progress bar off stderr (the app and CLI own the terminal), then puts
+    the library's setting back."""
     from transformers.utils import logging as transformers_logging
 
     was_enabled = transformers_logging.is_progress_bar_enabled()
     transformers_logging.disable_progress_bar()
     try:
-        return load()
+        yield
     finally:
         if was_enabled:
             transformers_logging.enable_progress_bar()
@@ -109,9 +112,10 @@ class TransformerReader:
             torch.set_num_threads(threads)
         self.quantize = quantize or read_default_quantize(self.model_dir)
         self.tokenizer = AutoTokenizer.from_pretrained(self.model_dir, local_files_only=True)
-        model = _quietly(lambda: AutoModelForQuestionAnswering.from_pretrained(
-            self.model_dir, local_files_only=True, use_safetensors=True, dtype=torch.float32
-        ))
+        with _no_progress_bar():
+            model = AutoModelForQuestionAnswering.from_pretrained(
+                self.model_dir, local_files_only=True, use_safetensors=True, dtype=torch.float32
+            )
         model.eval()
         self.model = quantize_reader(model, self.quantize)
         self.batch_size = batch_size
