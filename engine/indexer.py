@@ -7,7 +7,9 @@ A refresh:
    - same size, new mtime, same sha256 -> only the stat is updated;
    - otherwise -> parsed, cut into passages, tokenised and stored (one transaction per file);
 2. drops documents whose files are gone (always: the listing is complete even when stopped early);
-3. if anything changed, rebuilds BM25 from the stored token lists: written as ``bm25-<generation>.npz`` (temp
+3. if anything changed, rebuilds BM25 from the stored token lists, each passage's tokens followed by its
+   document's path tokens (``path_search_tokens``; stored meta ``bm25_fields`` names this rule, and a file built
+   under another rule is rebuilt): written as ``bm25-<generation>.npz`` (temp
    file + os.replace), then meta points at it in one transaction, then older files are deleted. Until that
    moment the previous file and meta stay valid, so an interrupted run leaves a usable index.
 BM25 position i is the i-th passage in passage_id order; the file carries the position -> passage_id and
@@ -29,7 +31,7 @@ import numpy as np
 from engine import defaults
 from engine.bm25 import Bm25Index, decode_strings, encode_strings
 from engine.index_store import IndexStore, StoredProblem
-from engine.text_tokens import tokenize_for_search
+from engine.text_tokens import path_search_tokens, tokenize_for_search
 from engine.types import Document, IngestProblem, Passage
 
 __all__ = ["IndexProgress", "IndexReport", "LoadedIndex", "index_dir", "open_index", "refresh_index", "refresh_lock"]
@@ -85,8 +87,14 @@ def _sha256_file(path: Path) -> str:
     return h.hexdigest()
 
 
+# What each passage's BM25 "document" is made of; stored in meta so that an index built otherwise is rebuilt.
+BM25_FIELDS = "passage text + document path"
+
+
 def _bm25_file_ok(store: IndexStore, idir: Path) -> bool:
     name, sha = store.get_meta("bm25_file"), store.get_meta("bm25_sha256")
+    if store.get_meta("bm25_fields") != BM25_FIELDS:
+        return False
     if not name or not sha or not (idir / name).is_file():
         return False
     return _sha256_file(idir / name) == sha
@@ -95,10 +103,13 @@ def _bm25_file_ok(store: IndexStore, idir: Path) -> bool:
 def rebuild_bm25(store: IndexStore, idir: Path) -> Path:
     """Build BM25 from the stored tokens under the next generation name; point meta at it; drop old files."""
     ids, docs, token_lists = [], [], []
+    path_tokens: dict[str, list[str]] = {}
     for pid, doc_path, tokens in store.iter_passage_tokens():
         ids.append(pid)
         docs.append(doc_path)
-        token_lists.append(tokens)
+        if doc_path not in path_tokens:
+            path_tokens[doc_path] = path_search_tokens(doc_path)
+        token_lists.append(tokens + path_tokens[doc_path])
     doc_names = sorted(set(docs))
     doc_no = {d: i for i, d in enumerate(doc_names)}
     blob, offsets = encode_strings(doc_names)
@@ -113,7 +124,8 @@ def rebuild_bm25(store: IndexStore, idir: Path) -> Path:
     target = idir / name
     Bm25Index.build(token_lists).to_npz(target, extra)
     store.set_meta(
-        {"generation": str(generation), "bm25_file": name, "bm25_sha256": _sha256_file(target), "dirty": "0"}
+        {"generation": str(generation), "bm25_file": name, "bm25_sha256": _sha256_file(target), "dirty": "0",
+         "bm25_fields": BM25_FIELDS}
     )
     for old in idir.glob("bm25-*"):
         if old.name != name:

@@ -143,3 +143,21 @@ def tokenize_for_search(text: str) -> list[str]:
         else:
             tokens += _word_tokens(m.group("word"))
     return [t for t in tokens if len(t) <= MAX_TOKEN_CHARS]
+
+
+_PATH_SEPARATORS_RE = re.compile(r"[\\/_\-.+]+")
+_CAMEL_BOUNDARY_RE = re.compile(r"(?<=[a-z])(?=[A-Z])")
+
+
+def path_search_tokens(rel_path: str) -> list[str]:
+    """Search tokens of a document's folder and file names, extension dropped.
+
+    "leases/Land_Lease-2024.pdf" -> tokens of "leases Land Lease 2024" (``_ - . + /`` and camelCase boundaries
+    split words). BM25 adds them to every passage of the document, so "the land lease" finds that file.
+    """
+    if not isinstance(rel_path, str):
+        raise ValueError(f"rel_path must be a str (got {type(rel_path).__name__})")
+    parts = rel_path.replace("\\", "/").split("/")
+    stem = parts[-1].rsplit(".", 1)[0] if "." in parts[-1].lstrip(".") else parts[-1]
+    words = " ".join([*parts[:-1], stem])
+    return tokenize_for_search(_CAMEL_BOUNDARY_RE.sub(" ", _PATH_SEPARATORS_RE.sub(" ", words)))

@@ -14,7 +14,7 @@ from rank_bm25 import BM25Okapi
 from engine import defaults, indexer
 from engine.bm25 import Bm25Index
 from engine.indexer import IndexProgress, open_index, refresh_index
-from engine.text_tokens import tokenize_for_search
+from engine.text_tokens import path_search_tokens, tokenize_for_search
 from engine.types import Document, IngestProblem, Page, Passage
 
 
@@ -93,11 +93,12 @@ def test_first_refresh_indexes_everything(fake, folder):
 
 
 def test_search_scores_equal_rank_bm25(fake, folder):
-    # Reference library: rank_bm25.BM25Okapi over the stored token lists (rank-bm25 0.2.2).
+    # Reference library: rank_bm25.BM25Okapi over the stored token lists, each followed by its document's path
+    # tokens (rank-bm25 0.2.2).
     refresh_index(folder)
     with open_index(folder) as idx:
         rows = list(idx.store.iter_passage_tokens())
-        ref = BM25Okapi([toks for _, _, toks in rows]).get_scores(tokenize_for_search("terminate after 30 days"))
+        ref = BM25Okapi([toks + path_search_tokens(doc) for _, doc, toks in rows]).get_scores(tokenize_for_search("terminate after 30 days"))
         hits = idx.search("terminate after 30 days", k=3)
         assert hits and hits[0][0].doc_path == "leases/warehouse.txt"
         by_id = {pid: s for (pid, _, _), s in zip(rows, ref)}
@@ -249,6 +250,27 @@ def test_open_index_rebuilds_missing_bm25_and_needs_an_index(fake, folder, tmp_p
         open_index(tmp_path_factory.mktemp("empty"))
     with pytest.raises(ValueError):
         refresh_index(folder / "no-such-folder")
+
+
+def test_a_question_naming_the_file_finds_that_file(fake, folder):
+    # The word "office" is only in the text of supply/office.txt; the office lease says so only in its path.
+    # Without path tokens the first hit is supply/office.txt (checked by disabling path_search_tokens).
+    refresh_index(folder)
+    with open_index(folder) as idx:
+        assert idx.search("How is office lease rent paid?", k=1)[0][0].doc_path == "leases/office.txt"
+        assert idx.search("When is warehouse rent due?", k=1)[0][0].text == "Rent is due quarterly."
+
+
+def test_an_index_built_without_path_tokens_is_rebuilt(fake, folder):
+    refresh_index(folder)
+    idir = folder / defaults.INDEX_DIR_NAME
+    with open_index(folder) as idx:
+        idx.store.set_meta({"bm25_fields": "passage text"})  # as an index from before path tokens
+    with open_index(folder) as idx:
+        assert idx.store.get_meta("bm25_fields") == indexer.BM25_FIELDS
+        assert [p.name for p in idir.glob("*.npz")] == ["bm25-000002.npz"]
+        assert idx.search("warehouse rent", k=1)[0][0].doc_path == "leases/warehouse.txt"
+    assert refresh_index(folder).indexed == ()  # documents themselves are not parsed again
 
 
 def test_real_ingest_if_available(folder):

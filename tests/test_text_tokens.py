@@ -5,7 +5,7 @@ from __future__ import annotations
 import pytest
 from nltk.stem import PorterStemmer
 
-from engine.text_tokens import CONTRACT_KEEP_WORDS, STOPWORDS, tokenize_for_search
+from engine.text_tokens import CONTRACT_KEEP_WORDS, STOPWORDS, path_search_tokens, tokenize_for_search
 
 _PORTER = PorterStemmer()
 
@@ -92,3 +92,14 @@ def test_deterministic_and_validates_input():
     assert tokenize_for_search("") == []
     with pytest.raises(ValueError):
         tokenize_for_search(None)  # type: ignore[arg-type]
+
+
+def test_path_tokens_are_the_folder_and_file_words():
+    # Our own rule (no outside source): separators and camelCase split words, the extension is dropped, and the
+    # words then follow tokenize_for_search (the stems come from nltk's PorterStemmer, checked above).
+    assert path_search_tokens("leases/Land_Lease-2024.pdf") == tokenize_for_search("leases Land Lease 2024")
+    assert path_search_tokens("PowerPurchaseAgreement.PDF") == tokenize_for_search("Power Purchase Agreement")
+    assert path_search_tokens("vendors\\msa+renewal.txt") == tokenize_for_search("vendors msa renewal")
+    assert path_search_tokens("NOTES") == ["note"] and path_search_tokens(".env") == ["env"]
+    with pytest.raises(ValueError, match="got bytes"):
+        path_search_tokens(b"lease.pdf")
