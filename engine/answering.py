@@ -2,8 +2,9 @@
 
 Pipeline for one question:
 1. the top ``k`` passages by BM25 (optionally scoped to one document or subfolder);
-2. the reader's best spans and null score for each passage;
-3. each span's margin m = span score - passage null score; fused rank score
+2. the reader's spans and null score for each passage (its answer first: the expected-F1 choice);
+3. each span's margin m = span score - passage null score (the passage's answer carries its best score,
+   ``Reading.margin``); fused rank score
    ``(1 - mu) * bm25 / bm25_max + mu * m`` (BERTserini-style linear interpolation);
 4. identical answers (same normalised text) merge into the best-ranked one, keeping the other citations; a
    different span that overlaps a better-ranked one on the same page (say "ninety (90) days" inside "ninety (90)
@@ -48,8 +49,8 @@ def rank_answers(
     bm25_max = bm25_max if bm25_max > 0 else float("inf")  # no positive BM25 score: retrieval adds nothing
     candidates = []
     for scored, reading in zip(passages, readings):
-        for span in reading.spans:
-            margin = span.score - reading.null_score
+        for i, span in enumerate(reading.spans):
+            margin = reading.margin(i)
             fused = calibration.fused(scored.bm25 / bm25_max, margin)
             candidates.append((fused, margin, scored, span))
     if not candidates:

@@ -6,6 +6,11 @@ DOC_STRIDE = 96  # overlap between consecutive windows of one passage (no source
 MAX_QUERY_LENGTH = 64
 MAX_ANSWER_TOKENS = 40  # longest span the decoder may return
 N_BEST = 20  # candidate starts/ends considered per window (no source: common practice)
+# The answer of a passage is the expected-F1 choice among its SPAN_CHOICE_CANDIDATES best spans, with span
+# probabilities softmax(score / SPAN_CHOICE_TEMPERATURE) (engine.reader.span_choice). T = 1 was chosen on dev:
+# T = 2 lost 1.5 F1 on TyDi-en dev (MODEL_CARD.md).
+SPAN_CHOICE_CANDIDATES = 20
+SPAN_CHOICE_TEMPERATURE = 1.0
 READER_BATCH_SIZE = 16
 
 # Passages (words).

@@ -29,7 +29,8 @@ class Prediction:
 def predict_examples(
     reader: SpanReader, examples: Sequence[SquadExample], threshold: float | None, batch: int = 64
 ) -> dict[str, Prediction]:
-    """Best span per question; with a threshold, the prediction is "" when null - best > threshold."""
+    """The reader's answer per question (``Reading.spans[0]``); with a threshold, the prediction is "" when
+    null - best score > threshold."""
     out: dict[str, Prediction] = {}
     for lo in range(0, len(examples), batch):
         part = examples[lo: lo + batch]
@@ -37,7 +38,7 @@ def predict_examples(
         for example, reading in zip(part, readings):
             best = reading.spans[0] if reading.spans else None
             text = best.text if best else ""
-            best_score = best.score if best else float("-inf")
+            best_score = reading.best_score
             if threshold is not None and reading.null_score - best_score > threshold:
                 text = ""
             out[example.qid] = Prediction(text, best.text if best else "", best_score, reading.null_score)

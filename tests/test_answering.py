@@ -89,6 +89,18 @@ def test_overlapping_spans_of_one_clause_are_one_answer():
     assert [a.text for a in result.answers] == ["Either party", " may terminate"]
 
 
+def test_a_passage_answers_with_its_chosen_span_at_its_best_margin():
+    # The reader put the expected-F1 choice first although a shorter span inside it scored higher. The passage's
+    # answer is the chosen span, ranked and calibrated at the best margin 6 - 1 = 5 (confidence sigmoid(5) with
+    # slope 1 and intercept 0); the higher-scored span overlaps it on the same page and is dropped.
+    long_notice = "ninety (90) days' notice"
+    readings = [Reading((span(P1, long_notice, 5.0), span(P1, "ninety (90) days", 6.0)), 1.0, 2)]
+    result = rank_answers("notice?", [ScoredPassage(P1, 8.0)], readings, CAL)
+    assert [a.text for a in result.answers] == [long_notice]
+    assert result.answers[0].reader_logit == 5.0
+    assert result.answers[0].score == pytest.approx(1 / (1 + math.exp(-5.0)), abs=1e-6)
+
+
 def test_folder_hit_counts_use_file_page_and_token_f1():
     from engine.evaluation import cites_gold, folder_hit_counts
 

@@ -13,6 +13,7 @@ import numpy as np
 from engine import defaults
 from engine.reader.decode import decode_spans, token_span_to_chars
 from engine.reader.interface import Reading, ReadSpan
+from engine.reader.span_choice import choose_span
 from engine.reader.windows import Window, build_windows, pad_batch
 
 QUANTIZE_CHOICES = (
@@ -150,14 +151,19 @@ class TransformerReader:
         return collect_readings(pairs, windows, logits, n_best, self.max_answer_tokens)
 
 
-def collect_readings(pairs, windows, logits, n_best: int, max_answer_tokens: int) -> list[Reading]:
-    """Merge window spans per pair: best score per character span; null score = min over windows."""
+def collect_readings(pairs, windows, logits, n_best: int, max_answer_tokens: int,
+                     candidates: int = defaults.SPAN_CHOICE_CANDIDATES) -> list[Reading]:
+    """Merge window spans per pair (best score per character span; null score = min over windows), then put the
+    expected-F1 choice among the ``candidates`` best spans first (``span_choice``) and keep ``n_best`` spans."""
+    if n_best < 1 or candidates < 1:
+        raise ValueError(f"n_best and candidates must be >= 1 (got {n_best} and {candidates})")
+    per_window = max(n_best, candidates)
     best: list[dict[tuple[int, int], float]] = [dict() for _ in pairs]
     nulls = [np.inf] * len(pairs)
     counts = [0] * len(pairs)
     for window, (start, end) in zip(windows, logits):
         spans, null = decode_spans(
-            start, end, np.array(window.context_mask), max_answer_tokens=max_answer_tokens, n_best=n_best
+            start, end, np.array(window.context_mask), max_answer_tokens=max_answer_tokens, n_best=per_window
         )
         p = window.pair_index
         counts[p] += 1
@@ -168,9 +174,13 @@ def collect_readings(pairs, windows, logits, n_best: int, max_answer_tokens: int
                 best[p][key] = span.score
     readings = []
     for p, (_, context) in enumerate(pairs):
-        ranked = sorted(best[p].items(), key=lambda kv: (-kv[1], kv[0]))[:n_best]
-        spans = tuple(ReadSpan(s, e, context[s:e], float(score)) for (s, e), score in ranked)
-        readings.append(Reading(spans, float(nulls[p]) if counts[p] else 0.0, counts[p]))
+        ranked = sorted(best[p].items(), key=lambda kv: (-kv[1], kv[0]))[:per_window]
+        spans = [ReadSpan(s, e, context[s:e], float(score)) for (s, e), score in ranked]
+        if spans:
+            pool = spans[:candidates]
+            chosen = choose_span([s.text for s in pool], [s.score for s in pool])
+            spans.insert(0, spans.pop(chosen))
+        readings.append(Reading(tuple(spans[:n_best]), float(nulls[p]) if counts[p] else 0.0, counts[p]))
     return readings
 
 

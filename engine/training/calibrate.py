@@ -162,8 +162,8 @@ def _top_answer(calibration: Calibration, hits, readings):
     bm25_max = max((s for _, s in hits), default=1.0) or 1.0
     best = None
     for (pos, score), reading in zip(hits, readings):
-        for span in reading.spans:
-            margin = span.score - reading.null_score
+        for i, span in enumerate(reading.spans):
+            margin = reading.margin(i)
             fused = calibration.fused(score / bm25_max, margin)
             if best is None or fused > best[2]:
                 best = (span.text, margin, fused)
