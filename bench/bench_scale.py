@@ -10,7 +10,8 @@ Per corpus size (documents from bench/make_corpus.py, reused from --work when al
 - PDF parsing pages/s on the PDF sample: the engine's read_pdf, and raw pypdf extract_text (the limit; the
   engine adds text repair on top);
 - retrieval latency over the sample questions, each timed ``--repeat`` times keeping its fastest:
-  ours = Bm25Index.top_k; reference = rank_bm25.BM25Okapi.get_scores + argsort, on the same token lists;
+  ours = Bm25Index.top_k; reference = rank_bm25.BM25Okapi.get_scores + argsort, on the same token lists (each
+  passage's text tokens followed by its document's path tokens, as the index builds them);
   also the full search (tokenise + rank + fetch passages) and a search scoped to the question's document;
 - with --reader and a committed model: Workspace.ask latency, and a brute-force reader pass over every
   passage of the question's document.
@@ -49,7 +50,7 @@ from scale_report import render  # noqa: E402
 
 from engine import defaults  # noqa: E402
 from engine.indexer import LoadedIndex, open_index, refresh_index  # noqa: E402
-from engine.text_tokens import tokenize_for_search  # noqa: E402
+from engine.text_tokens import path_search_tokens, tokenize_for_search  # noqa: E402
 
 K = defaults.TOP_K_PASSAGES
 
@@ -175,7 +176,8 @@ def reference_top(ref: BM25Okapi, tokens: list[str], k: int) -> tuple[np.ndarray
 
 
 def token_lists(index: LoadedIndex) -> list[list[str]]:
-    lists = [tokens for _, _, tokens in index.store.iter_passage_tokens()]
+    """What the index's BM25 counts for each passage: its stored tokens, then its document's path tokens."""
+    lists = [tokens + path_search_tokens(doc) for _, doc, tokens in index.store.iter_passage_tokens()]
     if len(lists) != index.bm25.n_passages:
         raise ValueError(f"store and BM25 file disagree (got {len(lists)} and {index.bm25.n_passages} passages)")
     return lists
