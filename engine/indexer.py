@@ -7,10 +7,8 @@ A refresh:
    - same size, new mtime, same sha256 -> only the stat is updated;
    - otherwise -> parsed, cut into passages, tokenised and stored (one transaction per file);
 2. drops documents whose files are gone (always: the listing is complete even when stopped early);
-3. if anything changed, rebuilds BM25 from the stored token lists, each passage's tokens followed by its
-   document's path tokens (``path_search_tokens``; stored meta ``bm25_fields`` names this rule, and a file built
-   under another rule is rebuilt): written as ``bm25-<generation>.npz`` (temp
-   file + os.replace), then meta points at it in one transaction, then older files are deleted. Until that
+3. if anything changed, rebuilds BM25 from the stored token lists (``engine.bm25_file``): written as
+   ``bm25-<generation>.npz`` (temp file + os.replace), then meta points at it in one transaction, then older files are deleted. Until that
    moment the previous file and meta stay valid, so an interrupted run leaves a usable index.
 BM25 position i is the i-th passage in passage_id order; the file carries the position -> passage_id and
 position -> document maps, so it stays self-consistent even if the store moved on after it was built.
@@ -20,7 +18,6 @@ from __future__ import annotations
 
 import contextlib
 import dataclasses
-import hashlib
 import time
 from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
@@ -29,9 +26,10 @@ from pathlib import Path
 import numpy as np
 
 from engine import defaults
-from engine.bm25 import Bm25Index, decode_strings, encode_strings
+from engine.bm25 import Bm25Index
+from engine.bm25_file import bm25_file_ok, load_bm25, rebuild_bm25, sha256_file
 from engine.index_store import IndexStore, StoredProblem
-from engine.text_tokens import path_search_tokens, tokenize_for_search
+from engine.text_tokens import tokenize_for_search
 from engine.types import Document, IngestProblem, Passage
 
 __all__ = ["IndexProgress", "IndexReport", "LoadedIndex", "index_dir", "open_index", "refresh_index", "refresh_lock"]
@@ -77,66 +75,6 @@ def _split(doc: Document) -> list[Passage]:
 
 def index_dir(folder: Path) -> Path:
     return Path(folder) / defaults.INDEX_DIR_NAME
-
-
-def _sha256_file(path: Path) -> str:
-    h = hashlib.sha256()
-    with open(path, "rb") as f:
-        for chunk in iter(lambda: f.read(1 << 20), b""):
-            h.update(chunk)
-    return h.hexdigest()
-
-
-# What each passage's BM25 "document" is made of; stored in meta so that an index built otherwise is rebuilt.
-BM25_FIELDS = "passage text + document path"
-
-
-def _bm25_file_ok(store: IndexStore, idir: Path) -> bool:
-    name, sha = store.get_meta("bm25_file"), store.get_meta("bm25_sha256")
-    if store.get_meta("bm25_fields") != BM25_FIELDS:
-        return False
-    if not name or not sha or not (idir / name).is_file():
-        return False
-    return _sha256_file(idir / name) == sha
-
-
-def rebuild_bm25(store: IndexStore, idir: Path) -> Path:
-    """Build BM25 from the stored tokens under the next generation name; point meta at it; drop old files."""
-    ids, docs, token_lists = [], [], []
-    path_tokens: dict[str, list[str]] = {}
-    for pid, doc_path, tokens in store.iter_passage_tokens():
-        ids.append(pid)
-        docs.append(doc_path)
-        if doc_path not in path_tokens:
-            path_tokens[doc_path] = path_search_tokens(doc_path)
-        token_lists.append(tokens + path_tokens[doc_path])
-    doc_names = sorted(set(docs))
-    doc_no = {d: i for i, d in enumerate(doc_names)}
-    blob, offsets = encode_strings(doc_names)
-    extra = {
-        "passage_ids": np.asarray(ids, dtype=np.int64),
-        "doc_of_pos": np.asarray([doc_no[d] for d in docs], dtype=np.int32),
-        "doc_blob": blob,
-        "doc_offsets": offsets,
-    }
-    generation = store.generation + 1
-    name = f"bm25-{generation:06d}.npz"
-    target = idir / name
-    Bm25Index.build(token_lists).to_npz(target, extra)
-    store.set_meta(
-        {"generation": str(generation), "bm25_file": name, "bm25_sha256": _sha256_file(target), "dirty": "0",
-         "bm25_fields": BM25_FIELDS}
-    )
-    for old in idir.glob("bm25-*"):
-        if old.name != name:
-            old.unlink(missing_ok=True)
-    return target
-
-
-def _load_bm25(path: Path) -> tuple[Bm25Index, np.ndarray, list[str], np.ndarray]:
-    bm25, extra = Bm25Index.load_npz(path)
-    doc_names = decode_strings(extra["doc_blob"], extra["doc_offsets"])
-    return bm25, extra["passage_ids"], doc_names, extra["doc_of_pos"]
 
 
 def _as_problems(doc: Document, problems: list[IngestProblem]) -> list[IngestProblem]:
@@ -211,7 +149,7 @@ class _Run:
             return
         if prev is not None and prev.size == st.st_size:
             try:
-                same = _sha256_file(abs_path) == prev.sha256.lower()
+                same = sha256_file(abs_path) == prev.sha256.lower()
             except OSError:
                 same = False
             if same:
@@ -303,7 +241,7 @@ def refresh_index(
         run.finish({r for _, r in files}, walk_problems)
         if not stopped:  # every file was seen under these limits; a stopped run retries again next time
             store.set_meta({"ingest_settings": run.settings})
-        if run.changed or not _bm25_file_ok(store, idir):
+        if run.changed or not bm25_file_ok(store, idir):
             rebuild_bm25(store, idir)
         n_passages = store.count_passages()
     if progress is not None:
@@ -425,13 +363,13 @@ def open_index(folder: Path) -> LoadedIndex:
     store = IndexStore(db)
     try:
         loaded = None
-        if _bm25_file_ok(store, idir) and store.get_meta("dirty") != "1":
+        if bm25_file_ok(store, idir) and store.get_meta("dirty") != "1":
             try:
-                loaded = _load_bm25(idir / str(store.get_meta("bm25_file")))
+                loaded = load_bm25(idir / str(store.get_meta("bm25_file")))
             except (ValueError, KeyError):
                 loaded = None
         if loaded is None:
-            loaded = _load_bm25(rebuild_bm25(store, idir))
+            loaded = load_bm25(rebuild_bm25(store, idir))
     except BaseException:
         store.close()
         raise

@@ -11,7 +11,7 @@ import numpy as np
 import pytest
 from rank_bm25 import BM25Okapi
 
-from engine import defaults, indexer
+from engine import bm25_file, defaults, indexer
 from engine.bm25 import Bm25Index
 from engine.indexer import IndexProgress, open_index, refresh_index
 from engine.text_tokens import path_search_tokens, tokenize_for_search
@@ -267,7 +267,7 @@ def test_an_index_built_without_path_tokens_is_rebuilt(fake, folder):
     with open_index(folder) as idx:
         idx.store.set_meta({"bm25_fields": "passage text"})  # as an index from before path tokens
     with open_index(folder) as idx:
-        assert idx.store.get_meta("bm25_fields") == indexer.BM25_FIELDS
+        assert idx.store.get_meta("bm25_fields") == bm25_file.BM25_FIELDS
         assert [p.name for p in idir.glob("*.npz")] == ["bm25-000002.npz"]
         assert idx.search("warehouse rent", k=1)[0][0].doc_path == "leases/warehouse.txt"
     assert refresh_index(folder).indexed == ()  # documents themselves are not parsed again
