@@ -49,8 +49,9 @@ from rank_bm25 import BM25Okapi  # noqa: E402
 from scale_report import render  # noqa: E402
 
 from engine import defaults  # noqa: E402
+from engine.bm25_file import bm25_documents  # noqa: E402
 from engine.indexer import LoadedIndex, open_index, refresh_index  # noqa: E402
-from engine.text_tokens import path_search_tokens, tokenize_for_search  # noqa: E402
+from engine.text_tokens import tokenize_for_search  # noqa: E402
 
 K = defaults.TOP_K_PASSAGES
 
@@ -176,8 +177,7 @@ def reference_top(ref: BM25Okapi, tokens: list[str], k: int) -> tuple[np.ndarray
 
 
 def token_lists(index: LoadedIndex) -> list[list[str]]:
-    """What the index's BM25 counts for each passage: its stored tokens, then its document's path tokens."""
-    lists = [tokens + path_search_tokens(doc) for _, doc, tokens in index.store.iter_passage_tokens()]
+    _, _, lists = bm25_documents(index.store)
     if len(lists) != index.bm25.n_passages:
         raise ValueError(f"store and BM25 file disagree (got {len(lists)} and {index.bm25.n_passages} passages)")
     return lists

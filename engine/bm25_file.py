@@ -39,8 +39,9 @@ def bm25_file_ok(store: IndexStore, idir: Path) -> bool:
     return sha256_file(idir / name) == sha
 
 
-def rebuild_bm25(store: IndexStore, idir: Path) -> Path:
-    """Build BM25 from the stored tokens under the next generation name; point meta at it; drop old files."""
+def bm25_documents(store: IndexStore) -> tuple[list[int], list[str], list[list[str]]]:
+    """Passage ids, their document paths, and what BM25 counts for each passage: its stored search tokens
+    followed by its document's path tokens (the ``BM25_FIELDS`` rule), in passage_id order."""
     ids, docs, token_lists = [], [], []
     path_tokens: dict[str, list[str]] = {}
     for pid, doc_path, tokens in store.iter_passage_tokens():
@@ -49,6 +50,12 @@ def rebuild_bm25(store: IndexStore, idir: Path) -> Path:
         if doc_path not in path_tokens:
             path_tokens[doc_path] = path_search_tokens(doc_path)
         token_lists.append(tokens + path_tokens[doc_path])
+    return ids, docs, token_lists
+
+
+def rebuild_bm25(store: IndexStore, idir: Path) -> Path:
+    """Build BM25 from the stored tokens under the next generation name; point meta at it; drop old files."""
+    ids, docs, token_lists = bm25_documents(store)
     doc_names = sorted(set(docs))
     doc_no = {d: i for i, d in enumerate(doc_names)}
     blob, offsets = encode_strings(doc_names)
