@@ -1,9 +1,10 @@
 """The BM25 statistics file of an index: ``FOLDER/.excerptor/bm25-<generation>.npz``, built from the store.
 
 Each passage's BM25 "document" is its stored search tokens followed by its document's path tokens
-(``path_search_tokens``); meta ``bm25_fields`` names that rule, and a file built under another rule counts as
-missing. The file is written whole under a new generation name, then meta points at it in one transaction, then
-older files are deleted, so a crash leaves the previous file and meta valid.
+(``path_search_tokens``) and title tokens (``document_title`` of its first passage); meta ``bm25_fields`` names
+that rule, and a file built under another rule counts as missing. The file is written whole under a new generation
+name, then meta points at it in one transaction, then older files are deleted, so a crash leaves the previous file
+and meta valid.
 """
 
 from __future__ import annotations
@@ -15,7 +16,7 @@ import numpy as np
 
 from engine.bm25 import Bm25Index, decode_strings, encode_strings
 from engine.index_store import IndexStore
-from engine.text_tokens import path_search_tokens
+from engine.text_tokens import document_title, path_search_tokens, tokenize_for_search
 
 
 def sha256_file(path: Path) -> str:
@@ -27,7 +28,7 @@ def sha256_file(path: Path) -> str:
 
 
 # What each passage's BM25 "document" is made of; stored in meta so that an index built otherwise is rebuilt.
-BM25_FIELDS = "passage text + document path"
+BM25_FIELDS = "passage text + document path + document title"
 
 
 def bm25_file_ok(store: IndexStore, idir: Path) -> bool:
@@ -39,17 +40,23 @@ def bm25_file_ok(store: IndexStore, idir: Path) -> bool:
     return sha256_file(idir / name) == sha
 
 
+def document_search_tokens(doc_path: str, first_passage_text: str) -> list[str]:
+    """What BM25 adds to every passage of a document: its path tokens, then its title's tokens."""
+    return path_search_tokens(doc_path) + tokenize_for_search(document_title(first_passage_text))
+
+
 def bm25_documents(store: IndexStore) -> tuple[list[int], list[str], list[list[str]]]:
     """Passage ids, their document paths, and what BM25 counts for each passage: its stored search tokens
-    followed by its document's path tokens (the ``BM25_FIELDS`` rule), in passage_id order."""
+    followed by ``document_search_tokens`` of its document (the ``BM25_FIELDS`` rule), in passage_id order."""
     ids, docs, token_lists = [], [], []
-    path_tokens: dict[str, list[str]] = {}
+    firsts = store.first_passage_texts()
+    doc_tokens: dict[str, list[str]] = {}
     for pid, doc_path, tokens in store.iter_passage_tokens():
         ids.append(pid)
         docs.append(doc_path)
-        if doc_path not in path_tokens:
-            path_tokens[doc_path] = path_search_tokens(doc_path)
-        token_lists.append(tokens + path_tokens[doc_path])
+        if doc_path not in doc_tokens:
+            doc_tokens[doc_path] = document_search_tokens(doc_path, firsts.get(doc_path, ""))
+        token_lists.append(tokens + doc_tokens[doc_path])
     return ids, docs, token_lists
 
 

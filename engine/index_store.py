@@ -292,6 +292,14 @@ class IndexStore:
         with self._lock:
             return int(self._conn.execute("SELECT COUNT(*) FROM passages").fetchone()[0])
 
+    def first_passage_texts(self) -> dict[str, str]:
+        """doc_path -> the text of its first passage (lowest passage_id), for every document with passages."""
+        with self._lock:
+            rows = self._conn.execute(
+                "SELECT doc_path, text FROM passages WHERE passage_id IN "
+                "(SELECT MIN(passage_id) FROM passages GROUP BY doc_path)").fetchall()
+        return dict(rows)
+
     def iter_passage_tokens(self) -> Iterator[tuple[int, str, list[str]]]:
         """(passage_id, doc_path, tokens) for every passage, in passage_id order (a consistent snapshot)."""
         with self._lock:  # one statement: a consistent snapshot

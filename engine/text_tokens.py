@@ -145,6 +145,24 @@ def tokenize_for_search(text: str) -> list[str]:
     return [t for t in tokens if len(t) <= MAX_TOKEN_CHARS]
 
 
+TITLE_MAX_WORDS = 12  # a longer first line is a sentence, not a title (no source: a common-sense bound)
+
+
+def document_title(first_passage_text: str) -> str:
+    """The document's title: the first non-blank line of its first passage, if that line has 1 to
+    ``TITLE_MAX_WORDS`` words, a letter, and does not end like a sentence (. ; :); else "".
+
+    "MUTUAL NONDISCLOSURE AGREEMENT\n\nThis Mutual ..." -> "MUTUAL NONDISCLOSURE AGREEMENT".
+    """
+    if not isinstance(first_passage_text, str):
+        raise ValueError(f"first_passage_text must be a str (got {type(first_passage_text).__name__})")
+    line = next((x.strip() for x in first_passage_text.splitlines() if x.strip()), "")
+    words = line.split()
+    if not 1 <= len(words) <= TITLE_MAX_WORDS or not any(c.isalpha() for c in line) or line[-1] in ".;:":
+        return ""
+    return line
+
+
 _PATH_SEPARATORS_RE = re.compile(r"[\\/_\-.+]+")
 _CAMEL_BOUNDARY_RE = re.compile(r"(?<=[a-z])(?=[A-Z])")
 

@@ -14,7 +14,7 @@ from rank_bm25 import BM25Okapi
 from engine import bm25_file, defaults, indexer
 from engine.bm25 import Bm25Index
 from engine.indexer import IndexProgress, open_index, refresh_index
-from engine.text_tokens import path_search_tokens, tokenize_for_search
+from engine.text_tokens import document_title, path_search_tokens, tokenize_for_search
 from engine.types import Document, IngestProblem, Page, Passage
 
 
@@ -94,11 +94,15 @@ def test_first_refresh_indexes_everything(fake, folder):
 
 def test_search_scores_equal_rank_bm25(fake, folder):
     # Reference library: rank_bm25.BM25Okapi over the stored token lists, each followed by its document's path
-    # tokens (rank-bm25 0.2.2).
+    # and title tokens (rank-bm25 0.2.2).
+    _write(folder / "notes" / "memo.txt", "RENEWAL MEMO\nRenewals run for one year after 30 days.")
     refresh_index(folder)
     with open_index(folder) as idx:
         rows = list(idx.store.iter_passage_tokens())
-        ref = BM25Okapi([toks + path_search_tokens(doc) for _, doc, toks in rows]).get_scores(tokenize_for_search("terminate after 30 days"))
+        firsts = idx.store.first_passage_texts()
+        assert document_title(firsts["notes/memo.txt"]) == "RENEWAL MEMO"
+        extra = {doc: path_search_tokens(doc) + tokenize_for_search(document_title(text)) for doc, text in firsts.items()}
+        ref = BM25Okapi([toks + extra[doc] for _, doc, toks in rows]).get_scores(tokenize_for_search("terminate after 30 days"))
         hits = idx.search("terminate after 30 days", k=3)
         assert hits and hits[0][0].doc_path == "leases/warehouse.txt"
         by_id = {pid: s for (pid, _, _), s in zip(rows, ref)}
@@ -261,11 +265,23 @@ def test_a_question_naming_the_file_finds_that_file(fake, folder):
         assert idx.search("When is warehouse rent due?", k=1)[0][0].text == "Rent is due quarterly."
 
 
+def test_a_question_naming_the_title_finds_that_document(fake, folder):
+    # A scanned contract's file name says nothing; its first line is its title, and its rent clause (a later
+    # passage) never says "equipment". Without title tokens supply/crane.txt ranks first (checked by making
+    # document_title return "").
+    _write(folder / "scan_0042.txt", "EQUIPMENT LEASE\n\n1. Term. One year.\n\n2. The lessee pays rent monthly.")
+    _write(folder / "supply" / "crane.txt", "Equipment rent for the crane is billed monthly.")
+    refresh_index(folder)
+    with open_index(folder) as idx:
+        top = idx.search("What monthly rent applies under the equipment lease?", k=1)[0][0]
+        assert (top.doc_path, top.text) == ("scan_0042.txt", "2. The lessee pays rent monthly.")
+
+
 def test_an_index_built_without_path_tokens_is_rebuilt(fake, folder):
     refresh_index(folder)
     idir = folder / defaults.INDEX_DIR_NAME
     with open_index(folder) as idx:
-        idx.store.set_meta({"bm25_fields": "passage text"})  # as an index from before path tokens
+        idx.store.set_meta({"bm25_fields": "passage text + document path"})  # as an index from before title tokens
     with open_index(folder) as idx:
         assert idx.store.get_meta("bm25_fields") == bm25_file.BM25_FIELDS
         assert [p.name for p in idir.glob("*.npz")] == ["bm25-000002.npz"]

@@ -5,7 +5,7 @@ from __future__ import annotations
 import pytest
 from nltk.stem import PorterStemmer
 
-from engine.text_tokens import CONTRACT_KEEP_WORDS, STOPWORDS, path_search_tokens, tokenize_for_search
+from engine.text_tokens import CONTRACT_KEEP_WORDS, STOPWORDS, document_title, path_search_tokens, tokenize_for_search
 
 _PORTER = PorterStemmer()
 
@@ -103,3 +103,17 @@ def test_path_tokens_are_the_folder_and_file_words():
     assert path_search_tokens("NOTES") == ["note"] and path_search_tokens(".env") == ["env"]
     with pytest.raises(ValueError, match="got bytes"):
         path_search_tokens(b"lease.pdf")
+
+
+def test_document_title_is_a_short_first_line():
+    # Our own rule (no outside source): the first non-blank line, if it is 1-12 words, has a letter and does not
+    # end like a sentence.
+    assert document_title("\n  MUTUAL NONDISCLOSURE AGREEMENT \n\nThis Agreement ...") == "MUTUAL NONDISCLOSURE AGREEMENT"
+    assert document_title("Exhibit B - Site Plan\nThe site is shown below.") == "Exhibit B - Site Plan"
+    assert document_title("The tenant shall pay rent monthly.\nMore text") == ""  # a sentence
+    assert document_title("1. Definitions:\nTerms") == ""
+    assert document_title("2024 - 07\nx") == ""  # no letter
+    assert document_title(" ".join(["word"] * 13)) == "" and document_title(" ".join(["word"] * 12)) != ""
+    assert document_title("") == "" and document_title("\n \n") == ""
+    with pytest.raises(ValueError, match="got NoneType"):
+        document_title(None)
