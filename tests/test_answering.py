@@ -27,8 +27,8 @@ def test_fused_ranking_and_citation_offsets():
     readings = [Reading((span(P1, "ninety (90) days", 6.0),), 2.0, 1),
                 Reading((span(P2, "in writing", 7.0),), 1.0, 1)]
     result = rank_answers("notice?", [ScoredPassage(P1, 10.0), ScoredPassage(P2, 5.0)], readings, CAL)
-    # P1: 0.5 * 10/10 + 0.5 * (6 - 2) = 2.5 ; P2: 0.5 * 5/10 + 0.5 * (7 - 1) = 3.25 -> "in writing" ranks first
-    # by fused score, but answers are listed by confidence = sigmoid(margin): sigmoid(6) > sigmoid(4).
+    # P1: 0.5 * 10/10 + 0.5 * (6 - 2) = 2.5 ; P2: 0.5 * 5/10 + 0.5 * (7 - 1) = 3.25 -> "in writing" ranks first;
+    # its confidence is sigmoid(margin) = sigmoid(6).
     assert [a.text for a in result.answers] == ["in writing", "ninety (90) days"]
     top = result.answers[0]
     assert top.score == pytest.approx(1 / (1 + math.exp(-6.0)), abs=1e-6)
@@ -36,6 +36,17 @@ def test_fused_ranking_and_citation_offsets():
     # Citation offsets index the page text: passage offset + span offset.
     assert top.citation.start == 40 + P2.text.index("in writing")
     assert not result.abstained
+
+
+def test_answers_are_listed_in_fused_order_not_by_confidence():
+    # P1: 0.5 * 10/10 + 0.5 * (6 - 2) = 2.5 ; P2: 0.5 * 1/10 + 0.5 * (5.5 - 1) = 2.3 -> P1's answer is listed first
+    # although its confidence sigmoid(4) = 0.982 is below P2's sigmoid(4.5) = 0.989.
+    readings = [Reading((span(P1, "ninety (90) days", 6.0),), 2.0, 1),
+                Reading((span(P2, "in writing", 5.5),), 1.0, 1)]
+    result = rank_answers("notice?", [ScoredPassage(P1, 10.0), ScoredPassage(P2, 1.0)], readings, CAL)
+    assert [a.text for a in result.answers] == ["ninety (90) days", "in writing"]
+    assert [a.score for a in result.answers] == pytest.approx([1 / (1 + math.exp(-4.0)), 1 / (1 + math.exp(-4.5))],
+                                                              abs=1e-6)
 
 
 def test_identical_answers_merge_and_keep_other_citations():
