@@ -17,8 +17,9 @@ from tui.spans import confidence_chip, decision_chip, one_line, snippet, where
 
 NO_ANSWER = "The folder does not seem to answer this question."
 NO_ANSWER_HINT = "Try other words, or widen the scope (w)."
-WAITING = ("Answers appear here, best first: confidence (LOW when the engine doubts it), document and page, "
-           "and a few words of context. Up/Down move; the source shows on the right.")
+WAITING = ("Answers appear here, best match first (passage fit and reader together), each with its confidence "
+           "(LOW when the engine doubts it), document and page, and a few words of context. Up/Down move; the "
+           "source shows on the right.")
 
 
 class AnswerList(OptionList):
