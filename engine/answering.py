@@ -14,7 +14,7 @@ Pipeline for one question:
 
 Answers are listed in fused order, the order that ``calibrate`` chose mu for, so a lower-confidence answer from a
 passage that matches the question much better can come first. (Listing the five best by confidence instead gave
-first-answer F1 55.6 against 57.9 in fused order on the TyDi-en dev open corpus: runs of 2026-12-03, MODEL_CARD.md.)
+first-answer F1 55.6 against 57.9 in fused order on the TyDi-en dev open corpus: scripts/folder_checks.py.)
 """
 
 from __future__ import annotations
