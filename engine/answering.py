@@ -59,7 +59,7 @@ def rank_answers(
             candidates.append((fused, margin, scored, span))
     if not candidates:
         return AskResult(question, (), True)
-    candidates.sort(key=lambda c: (-c[0], c[2].passage.passage_id, c[3].start))
+    candidates.sort(key=lambda c: -c[0])  # stable: ties keep BM25 order, then the reader's order (its answer first)
     best_margin = max(c[1] for c in candidates)
     if -best_margin > calibration.null_margin_threshold:
         return AskResult(question, (), True)

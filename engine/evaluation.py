@@ -8,9 +8,11 @@ from typing import Sequence
 
 import numpy as np
 
+from engine.answering import ScoredPassage
 from engine.metrics import SquadScores, f1_v1, score_v1, score_v2
 from engine.reader.interface import SpanReader
 from engine.squad_data import SquadExample, load_examples
+from engine.types import Passage
 
 
 @dataclass(frozen=True)
@@ -43,6 +45,13 @@ def predict_examples(
                 text = ""
             out[example.qid] = Prediction(text, best.text if best else "", best_score, reading.null_score)
     return out
+
+
+def open_corpus_passages(contexts: Sequence[str], hits: Sequence[tuple[int, float]]) -> list[ScoredPassage]:
+    """(context index, BM25 score) hits over a corpus of plain paragraphs, as ``rank_answers`` takes them: each
+    paragraph is its own document ``paragraph-<i>``, so citations of different paragraphs never overlap."""
+    return [ScoredPassage(Passage(int(i), f"paragraph-{int(i)}", None, "whole", 0, len(contexts[i]), contexts[i]),
+                          float(score)) for i, score in hits]
 
 
 def has_unanswerable(examples: Sequence[SquadExample]) -> bool:

@@ -8,8 +8,9 @@ A refresh:
    - otherwise -> parsed, cut into passages, tokenised and stored (one transaction per file);
 2. drops documents whose files are gone (always: the listing is complete even when stopped early);
 3. if anything changed, rebuilds BM25 from the stored token lists (``engine.bm25_file``): written as
-   ``bm25-<generation>.npz`` (temp file + os.replace), then meta points at it in one transaction, then older files are deleted. Until that
-   moment the previous file and meta stay valid, so an interrupted run leaves a usable index.
+   ``bm25-<generation>.npz`` (temp file + os.replace), then meta points at it in one transaction, then older files
+   are deleted. Until that moment the previous file and meta stay valid, so an interrupted run leaves a usable
+   index.
 BM25 position i is the i-th passage in passage_id order; the file carries the position -> passage_id and
 position -> document maps, so it stays self-consistent even if the store moved on after it was built.
 """

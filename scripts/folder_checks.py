@@ -25,26 +25,23 @@ ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
 from engine import defaults  # noqa: E402
-from engine.answering import ScoredPassage, rank_answers  # noqa: E402
+from engine.answering import rank_answers  # noqa: E402
 from engine.bm25 import Bm25Index  # noqa: E402
 from engine.calibration import load_calibration  # noqa: E402
-from engine.evaluation import paired_bootstrap  # noqa: E402
+from engine.evaluation import open_corpus_passages, paired_bootstrap  # noqa: E402
 from engine.metrics import f1_v1  # noqa: E402
 from engine.reader.transformer_reader import TransformerReader  # noqa: E402
 from engine.squad_data import load_examples  # noqa: E402
 from engine.text_tokens import tokenize_for_search  # noqa: E402
 from engine.training.calibrate import HASANS_F1_BUDGET  # noqa: E402
-from engine.types import Passage  # noqa: E402
 
 
 def ask(reader, calibration, question: str, index: Bm25Index, positions: list[int], contexts: list[str], top_n: int):
-    """rank_answers over the top-k BM25 paragraphs; returns (AskResult, best margin over all read spans)."""
-    hits = index.top_k(tokenize_for_search(question), defaults.TOP_K_PASSAGES)
-    passages = []
-    for pos, score in hits:
-        i = positions[pos]  # each paragraph is its own "document", so citations never collide
-        passages.append(ScoredPassage(Passage(i, f"paragraph-{i}", None, "whole", 0, len(contexts[i]), contexts[i]),
-                                      float(score)))
+    """rank_answers over the top-k BM25 paragraphs; returns (AskResult, best margin over all read spans).
+    ``positions[j]`` is the context index of the index's j-th paragraph."""
+    hits = [(positions[pos], score) for pos, score in index.top_k(tokenize_for_search(question),
+                                                                  defaults.TOP_K_PASSAGES)]
+    passages = open_corpus_passages(contexts, hits)
     readings = reader.read_pairs([(question, sp.passage.text) for sp in passages], n_best=5)
     best = max((r.margin(i) for r in readings for i in range(len(r.spans))), default=-np.inf)
     return rank_answers(question, passages, readings, calibration, top_n), best

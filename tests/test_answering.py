@@ -127,3 +127,28 @@ def test_folder_hit_counts_use_file_page_and_token_f1():
     abstained = rank_answers("guarantor?", [], [], CAL)
     counts = folder_hit_counts([(lease, result), (supply, result), (lease, abstained)])
     assert counts == {"questions": 3, "top1": 1, "listed": 1, "abstained": 1}
+
+
+def test_open_corpus_paragraphs_are_separate_documents():
+    # Two paragraphs whose answers sit at the same offsets: as separate documents neither answer hides the other
+    # (with one shared document and locator, the overlap rule would drop the second).
+    from engine.evaluation import open_corpus_passages
+
+    contexts = ["Rent is due monthly.", "Rent is due weekly."]
+    passages = open_corpus_passages(contexts, [(1, 2.0), (0, 1.0)])
+    assert [(p.passage.doc_path, p.passage.text, p.bm25) for p in passages] == [
+        ("paragraph-1", contexts[1], 2.0), ("paragraph-0", contexts[0], 1.0)]
+    readings = [Reading((ReadSpan(12, 18, "weekly", 5.0),), 1.0, 1),
+                Reading((ReadSpan(12, 19, "monthly", 5.0),), 1.0, 1)]
+    result = rank_answers("When is rent due?", passages, readings, CAL)
+    assert [a.text for a in result.answers] == ["weekly", "monthly"]
+
+
+def test_ties_keep_bm25_order_then_the_readers_order():
+    # With mu = 0 every span of a passage has the fused score bm25 / bm25_max, so all of P1's spans tie: the
+    # reader's answer (spans[0], "ninety (90) days") stays first although "Either party" starts earlier.
+    bm25_only = Calibration(null_margin_threshold=2.0, fusion_weight=0.0, confidence_slope=1.0,
+                            confidence_intercept=0.0)
+    readings = [Reading((span(P1, "ninety (90) days", 4.0), span(P1, "Either party", 6.0)), 1.0, 1)]
+    result = rank_answers("notice?", [ScoredPassage(P1, 3.0)], readings, bm25_only)
+    assert [a.text for a in result.answers] == ["ninety (90) days", "Either party"]

@@ -6,9 +6,9 @@ p_j = softmax(s_j / T) over the n candidates, and the expected F1 of answering c
     E[F1](c_i) = sum_j p_j * F1(c_i, c_j)          (F1: the SQuAD v1.1 token F1, ``engine.metrics.f1_v1``)
 
 Answering argmax_i E[F1](c_i) is the minimum-Bayes-risk choice for the F1 metric (Kumar and Byrne, 2004,
-"Minimum Bayes-risk decoding for statistical machine translation", cited from memory, applied here to spans). It differs from the top-scored span when the probability mass sits
-on several overlapping spans that agree on most of their words, such as "ninety (90) days" and "ninety (90)
-days' prior written notice".
+"Minimum Bayes-risk decoding for statistical machine translation", cited from memory, applied here to spans). It
+differs from the top-scored span when the probability mass sits on several overlapping spans that agree on most
+of their words, such as "ninety (90) days" and "ninety (90) days' prior written notice".
 """
 
 from __future__ import annotations

@@ -28,14 +28,14 @@ import numpy as np
 
 from engine.bm25 import Bm25Index
 from engine.calibration import Calibration, fit_logistic
-from engine.evaluation import per_question_f1, predict_examples, stratified_paired_bootstrap
+from engine.answering import rank_answers
+from engine.evaluation import open_corpus_passages, per_question_f1, predict_examples, stratified_paired_bootstrap
 from engine.metrics import f1_v1, f1_v2
 from engine.squad_data import SquadExample, load_examples
 from engine.text_tokens import tokenize_for_search
 from engine.training.features import expand_examples
 from engine.training.rewrite_negatives import rewritten_negatives
 from engine.training.swap_negatives import swapped_entity_negatives
-from engine.types import Passage
 
 MAX_F1_LOSS = 1.5
 # Answerable-question F1 we accept to lose to abstention, on dev. Below the 5-point goal on SQuAD v2.0 to leave
@@ -146,28 +146,17 @@ def fusion_and_confidence(reader, data_dir: Path, k: int = 8):
     for mu in grid:
         calibration = Calibration(fusion_weight=mu, null_margin_threshold=1e9)
         f1s, margins = [], []
-        for e, hits, readings in per_question:
-            best = _top_answer(calibration, hits, readings)
+        for e, hits, readings in per_question:  # the first answer exactly as the app ranks it
+            result = rank_answers(e.question, open_corpus_passages(contexts, hits), readings, calibration, top_n=1)
+            top = result.answers[0] if result.answers else None
             golds = [a.text for a in e.answers]
-            f1s.append(max(f1_v1(best[0], g) for g in golds) if best else 0.0)
-            margins.append(best[1] if best else -20.0)
+            f1s.append(max(f1_v1(top.text, g) for g in golds) if top else 0.0)
+            margins.append(top.reader_logit if top else -20.0)
         results[mu] = (float(np.mean(f1s)) * 100, f1s, margins)
     mu = max(grid, key=lambda m: (results[m][0], -abs(m - 0.5)))
     _, f1s, margins = results[mu]
     slope, intercept = fit_logistic(np.array(margins), (np.array(f1s) >= 0.5).astype(float))
     return mu, {str(m): round(results[m][0], 2) for m in grid}, slope, intercept
-
-
-def _top_answer(calibration: Calibration, hits, readings):
-    bm25_max = max((s for _, s in hits), default=1.0) or 1.0
-    best = None
-    for (pos, score), reading in zip(hits, readings):
-        for i, span in enumerate(reading.spans):
-            margin = reading.margin(i)
-            fused = calibration.fused(score / bm25_max, margin)
-            if best is None or fused > best[2]:
-                best = (span.text, margin, fused)
-    return best
 
 
 def quantize_variants(model_dir: Path, data_dir: Path, rng: random.Random, log=print,
@@ -267,4 +256,4 @@ def with_threshold(calibration: Calibration, threshold: float) -> Calibration:
     return replace(calibration, null_margin_threshold=threshold)
 
 
-__all__ = ["calibrate", "Passage"]
+__all__ = ["calibrate"]
