@@ -92,3 +92,20 @@ def test_pairwise_matrix_equals_the_official_f1_pair_by_pair():
     texts = [THIRTY, NINETY, NOTICE, "the days, the days", "", "Notice!", "prior notice prior"]
     got = pairwise_token_f1(texts)
     assert got == pytest.approx(np.array([[f1_v1(a, b) for b in texts] for a in texts]), abs=1e-12)
+
+
+def test_one_candidate_or_a_cold_temperature_keeps_the_top_scored_span():
+    # Same logits as above. With candidates=1 the choice is the top-scored span itself. At T = 0.1 the belief is
+    # p ∝ exp(10 s): p("notice") = e^(10 ln(4/3)) / (e^(10 ln(4/3)) + 2) = 17.76 / 19.76 = 0.899, the others 0.051
+    # each, so E("notice") = 0.899 + 0.051 * 0.4 = 0.919 beats E(whole) = 0.899 * 0.4 + 0.051 * (2/3 + 1) = 0.444.
+    low = -50.0
+    start = np.array([1.0, low, low, 0.0, low, low, math.log(4 / 3), low])
+    end = np.array([1.0, low, low, low, math.log(3), low, math.log(3), low])
+    window = Window(0, (0,) * 8, (0,) * 8, OFFSETS, MASK)
+    pairs = [("how much notice?", CONTEXT)]
+    for candidates, temperature in ((1, 1.0), (20, 0.1)):
+        (reading,) = collect_readings(pairs, [window], [(start, end)], n_best=3, max_answer_tokens=4,
+                                      candidates=candidates, temperature=temperature)
+        assert reading.spans[0].text == "notice"
+    with pytest.raises(ValueError, match=r"temperature must be > 0 \(got 0.0\)"):
+        collect_readings(pairs, [window], [(start, end)], n_best=3, max_answer_tokens=4, temperature=0.0)

@@ -152,9 +152,11 @@ class TransformerReader:
 
 
 def collect_readings(pairs, windows, logits, n_best: int, max_answer_tokens: int,
-                     candidates: int = defaults.SPAN_CHOICE_CANDIDATES) -> list[Reading]:
+                     candidates: int = defaults.SPAN_CHOICE_CANDIDATES,
+                     temperature: float = defaults.SPAN_CHOICE_TEMPERATURE) -> list[Reading]:
     """Merge window spans per pair (best score per character span; null score = min over windows), then put the
-    expected-F1 choice among the ``candidates`` best spans first (``span_choice``) and keep ``n_best`` spans."""
+    expected-F1 choice among the ``candidates`` best spans first (``span_choice``, at ``temperature``) and keep
+    ``n_best`` spans. ``candidates=1`` keeps the top-scored span first."""
     if n_best < 1 or candidates < 1:
         raise ValueError(f"n_best and candidates must be >= 1 (got {n_best} and {candidates})")
     per_window = max(n_best, candidates)
@@ -178,7 +180,7 @@ def collect_readings(pairs, windows, logits, n_best: int, max_answer_tokens: int
         spans = [ReadSpan(s, e, context[s:e], float(score)) for (s, e), score in ranked]
         if spans:
             pool = spans[:candidates]
-            chosen = choose_span([s.text for s in pool], [s.score for s in pool])
+            chosen = choose_span([s.text for s in pool], [s.score for s in pool], temperature)
             spans.insert(0, spans.pop(chosen))
         readings.append(Reading(tuple(spans[:n_best]), float(nulls[p]) if counts[p] else 0.0, counts[p]))
     return readings

@@ -1,8 +1,8 @@
 """Tune, on dev data only, what the shipped reader needs besides its weights.
 
 - quantisation: the fastest int8 variant whose F1 loss against fp32 is at most MAX_F1_LOSS with 95 % confidence,
-  over two dev sets that count equally: TyDi-en dev (general text) and CUAD dev answer slices (contracts, the
-  product's job). The bound is the worst end of a stratified paired-bootstrap interval of the loss, and each set's
+  over three dev sets that count equally: TyDi-en dev (general text), CUAD dev answer slices (contract clauses)
+  and CUAD dev short answers (titles, parties and dates asked as plain questions, the product's commonest kind). The bound is the worst end of a stratified paired-bootstrap interval of the loss, and each set's
   own loss must also be within MAX_F1_LOSS. A point estimate alone is not enough: on 440 questions its 95 %
   interval is about 4 points wide, so noise could pick a variant that loses 3 points on new text;
 - the no-answer margin threshold: the lowest (most abstaining) margin whose answerable-question F1 on a dev mix
@@ -35,6 +35,7 @@ from engine.squad_data import SquadExample, load_examples
 from engine.text_tokens import tokenize_for_search
 from engine.training.features import expand_examples
 from engine.training.rewrite_negatives import rewritten_negatives
+from engine.training.short_contract_questions import short_contract_questions
 from engine.training.swap_negatives import swapped_entity_negatives
 
 MAX_F1_LOSS = 1.5
@@ -44,6 +45,7 @@ HASANS_F1_BUDGET = 4.0
 # Timing sample and repeats for the quantisation rule; common-practice sizes with no source.
 TIMING_QUESTIONS = 80
 TIMING_ROUNDS = 5
+SHORT_SET_SEED = 7  # where each short-answer slice starts (engine.training.short_contract_questions)
 
 
 def dev_mix(data_dir: Path, rng: random.Random, cuad_limit: int = 400) -> list[SquadExample]:
@@ -159,9 +161,21 @@ def fusion_and_confidence(reader, data_dir: Path, k: int = 8):
     return mu, {str(m): round(results[m][0], 2) for m in grid}, slope, intercept
 
 
+def dev_answer_sets(data_dir: Path, rng: random.Random, cuad_limit: int | None = None) -> dict[str, list[SquadExample]]:
+    """The three answerable dev sets, keyed by the name of their F1 in ``quantize_variants``: TyDi-en dev, CUAD dev
+    answer slices (questions shuffled by ``rng``, then sliced), CUAD dev short answers (seed SHORT_SET_SEED)."""
+    tydi = load_examples(data_dir / "dev/tydiqa_goldp_en_dev.json.gz")
+    cuad = [e for e in load_examples(data_dir / "dev/cuad_dev.json.gz") if e.answers]
+    short = short_contract_questions(cuad, random.Random(SHORT_SET_SEED))
+    rng.shuffle(cuad)
+    contract = expand_examples(cuad[:cuad_limit], rng, negatives_per_example=0.0)
+    return {"dev_f1": tydi, "cuad_dev_f1": contract, "short_contract_dev_f1": short}
+
+
 def quantize_variants(model_dir: Path, data_dir: Path, rng: random.Random, log=print,
                       cuad_limit: int | None = None) -> dict[str, dict]:
-    """Per int8 variant: F1 on TyDi-en dev ("dev_f1"), on CUAD dev answer slices ("cuad_dev_f1"), ms/window, and
+    """Per int8 variant: F1 on TyDi-en dev ("dev_f1"), on CUAD dev answer slices ("cuad_dev_f1"), on CUAD dev short
+    answers ("short_contract_dev_f1"), ms/window, and
     "loss_bound": the upper end of the 95 % stratified paired-bootstrap interval of the F1 lost against fp32.
 
     The speed comes from ``interleaved_ms_per_window`` on the first TIMING_QUESTIONS dev questions, not from the
@@ -169,24 +183,22 @@ def quantize_variants(model_dir: Path, data_dir: Path, rng: random.Random, log=p
     """
     from engine.reader.transformer_reader import QUANTIZE_CHOICES, TransformerReader
 
-    tydi = load_examples(data_dir / "dev/tydiqa_goldp_en_dev.json.gz")
-    cuad = [e for e in load_examples(data_dir / "dev/cuad_dev.json.gz") if e.answers]
-    rng.shuffle(cuad)
-    contract = expand_examples(cuad[:cuad_limit], rng, negatives_per_example=0.0)
+    sets = dev_answer_sets(data_dir, rng, cuad_limit)
+    tydi, contract, short = sets.values()
     readers = {mode: TransformerReader(model_dir, quantize=mode) for mode in QUANTIZE_CHOICES}
     speeds = interleaved_ms_per_window(readers, [(e.question, e.context) for e in tydi[:TIMING_QUESTIONS]])
     per_question = {}
     for mode, reader in readers.items():
-        per_question[mode] = [per_question_f1(predict_examples(reader, s, threshold=None), s) for s in (tydi, contract)]
+        per_question[mode] = [per_question_f1(predict_examples(reader, s, threshold=None), s) for s in sets.values()]
     variants = {}
     for mode in readers:
-        f1, cuad_f1 = (100.0 * float(np.mean(list(scores.values()))) for scores in per_question[mode])
-        variants[mode] = {"dev_f1": round(f1, 2), "cuad_dev_f1": round(cuad_f1, 2),
-                          "ms_per_window": round(speeds[mode], 2),
+        scores = {key: round(100.0 * float(np.mean(list(q.values()))), 2) for key, q in zip(sets, per_question[mode])}
+        variants[mode] = {**scores, "ms_per_window": round(speeds[mode], 2),
                           "loss_bound": round(loss_upper_bound(per_question["none"], per_question[mode]), 2)}
-        log(f"quantize={mode}: TyDi-en dev F1 {f1:.2f}, CUAD dev slices F1 {cuad_f1:.2f} ({len(contract)} slices), "
-            f"F1 loss <= {variants[mode]['loss_bound']} (95 %), {variants[mode]['ms_per_window']} ms/window "
-            f"(median of {TIMING_ROUNDS} interleaved rounds)")
+        log(f"quantize={mode}: TyDi-en dev F1 {scores['dev_f1']:.2f}, CUAD dev slices F1 {scores['cuad_dev_f1']:.2f} "
+            f"({len(contract)} slices), CUAD dev short answers F1 {scores['short_contract_dev_f1']:.2f} "
+            f"({len(short)}), F1 loss <= {variants[mode]['loss_bound']} (95 %), {variants[mode]['ms_per_window']} "
+            f"ms/window (median of {TIMING_ROUNDS} interleaved rounds)")
     return variants
 
 

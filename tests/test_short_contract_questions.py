@@ -1,0 +1,82 @@
+"""The short-contract-answer dev set builder (engine.training.short_contract_questions).
+
+The contract below is invented for this test. The CUAD question template it imitates is the one of CUAD v1
+(Hendrycks et al., 2021), as it appears in ``dev/cuad_dev.json.gz``.
+"""
+
+import random
+
+import pytest
+
+from engine.squad_data import GoldAnswer, SquadExample
+from engine.training.short_contract_questions import SHORT_ANSWER_QUESTIONS, cuad_kind, short_contract_questions
+from tests.shared_data import shared_file
+
+TEMPLATE = 'Highlight the parts (if any) of this contract related to "{}" that should be reviewed by a lawyer.'
+PREAMBLE = ("TOOLING SUPPLY AGREEMENT\n\nThis Tooling Supply Agreement is made on March 4, 2025 between Quillfeather "
+            "Tooling Ltd. (\"Supplier\") and Brambleworth Mills LLC (\"Buyer\"). ")
+FILLER = "The Supplier shall deliver the tooling in good order. " * 60
+LAW = "This Agreement is governed by the laws of the State of Vermont, without regard to its conflict of laws rules."
+CONTRACT = PREAMBLE + FILLER + LAW
+
+
+def gold(text: str, after: int = 0) -> GoldAnswer:
+    return GoldAnswer(text, CONTRACT.index(text, after))
+
+
+def cuad(kind: str, *answers: GoldAnswer) -> SquadExample:
+    return SquadExample(f"q-{kind}", "tooling", TEMPLATE.format(kind), CONTRACT, answers, not answers)
+
+
+def test_kind_is_read_from_the_template():
+    assert cuad_kind(TEMPLATE.format("Agreement Date")) == "Agreement Date"
+    assert cuad_kind("Who signed it?") is None
+
+
+def test_short_kinds_become_plain_questions_over_one_slice_with_every_gold_inside():
+    far_supplier = gold("Supplier", len(PREAMBLE) + 2000)  # a gold span outside the slice of the first one
+    examples = [
+        cuad("Parties", gold("Brambleworth Mills LLC"), gold("Quillfeather Tooling Ltd."), far_supplier),
+        cuad("Agreement Date", gold("March 4, 2025")),
+        cuad("Governing Law", gold(LAW)),  # not a short-answer kind
+        cuad("Document Name"),  # no gold span
+        cuad("Effective Date", gold(PREAMBLE[:120])),  # gold longer than 10 words
+    ]
+    out = short_contract_questions(examples, random.Random(3))
+    assert [e.question for e in out] == [SHORT_ANSWER_QUESTIONS["Parties"], SHORT_ANSWER_QUESTIONS["Agreement Date"]]
+    parties, date = out
+    # The slice holds the first gold span (by position) and keeps every gold span lying wholly inside it.
+    assert [a.text for a in parties.answers] == ["Quillfeather Tooling Ltd.", "Brambleworth Mills LLC"]
+    assert len(parties.context) <= 1100 and far_supplier.start >= 1100
+    assert [a.text for a in date.answers] == ["March 4, 2025"]
+    for example in out:
+        assert not example.is_impossible and example.qid.endswith("#short")
+        for answer in example.answers:
+            assert example.context[answer.start: answer.start + len(answer.text)] == answer.text
+
+
+def test_slices_place_the_answer_at_varied_offsets_and_are_reproducible():
+    example = cuad("Parties", gold("Supplier", len(PREAMBLE) + 2000))  # deep in the contract, room on both sides
+    starts = {short_contract_questions([example], random.Random(seed))[0].answers[0].start for seed in range(20)}
+    assert len(starts) > 10
+    assert short_contract_questions([example], random.Random(5)) == short_contract_questions([example], random.Random(5))
+
+
+def test_bad_arguments_raise():
+    with pytest.raises(ValueError, match=r"got 0, 1100"):
+        short_contract_questions([], random.Random(0), max_answer_words=0)
+
+
+def test_the_dev_set_built_from_cuad_dev_is_sound():
+    # The real CUAD v1 dev split (Hendrycks et al., 2021) in ../shared: 183 questions of the four kinds, each with
+    # gold spans that sit at their offsets; calibrate's quantisation rule scores this set as its third stratum.
+    from engine.training.calibrate import dev_answer_sets
+
+    path = shared_file("dev/cuad_dev.json.gz")
+    sets = dev_answer_sets(path.parents[1], random.Random(7))
+    assert [len(s) for s in sets.values()] == [440, 918, 183]
+    short = sets["short_contract_dev_f1"]
+    assert {e.question for e in short} == set(SHORT_ANSWER_QUESTIONS.values())
+    assert all(e.answers and all(e.context[a.start: a.start + len(a.text)] == a.text and len(a.text.split()) <= 10
+                                 for a in e.answers) for e in short)
+
