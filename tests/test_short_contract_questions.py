@@ -80,3 +80,30 @@ def test_the_dev_set_built_from_cuad_dev_is_sound():
     assert all(e.answers and all(e.context[a.start: a.start + len(a.text)] == a.text and len(a.text.split()) <= 10
                                  for a in e.answers) for e in short)
 
+
+def test_training_mix_adds_plain_question_copies_of_cuad_train(tmp_path):
+    # The training command's CUAD branch (engine.training.train.assemble_examples) with two copies: each eligible
+    # question comes back twice as a plain question, each copy over its own slice; other kinds add nothing.
+    import gzip
+    import json
+
+    from engine.training.train import TrainConfig, assemble_examples
+
+    def qa(kind, answer):
+        return {"id": f"q-{kind}", "question": TEMPLATE.format(kind),
+                "answers": [{"text": answer, "answer_start": CONTRACT.index(answer)}]}
+
+    raw = {"data": [{"title": "tooling", "paragraphs": [{"context": CONTRACT, "qas": [
+        qa("Agreement Date", "March 4, 2025"), qa("Governing Law", LAW)]}]}]}
+    (tmp_path / "train").mkdir()
+    with gzip.open(tmp_path / "train" / "cuad_train.json.gz", "wt", encoding="utf-8") as handle:
+        json.dump(raw, handle)
+    config = TrainConfig(data_dir=str(tmp_path), train_files=("train/cuad_train.json.gz",), synthetic_windows=0,
+                         cuad_plain_question_copies=2)
+    examples, counts = assemble_examples(config, random.Random(0))
+    plain = [e for e in examples if e.question == SHORT_ANSWER_QUESTIONS["Agreement Date"]]
+    assert len(plain) == 2 and counts["train/cuad_train.json.gz plain short-answer questions"] == 2
+    assert all(e.answers[0].text == "March 4, 2025" for e in plain)
+    without, _ = assemble_examples(TrainConfig(data_dir=str(tmp_path), train_files=("train/cuad_train.json.gz",),
+                                               synthetic_windows=0), random.Random(0))
+    assert not any(e.question in SHORT_ANSWER_QUESTIONS.values() for e in without)

@@ -30,6 +30,9 @@ class TrainConfig:
     )
     cuad_answerable_limit: int = 7000  # CUAD answer slices kept
     cuad_negative_limit: int = 2500  # CUAD unanswerable questions kept (each gives negative slices)
+    # Copies of each CUAD title/parties/date question asked as a plain question over its own slice
+    # (engine.training.short_contract_questions; each copy draws its own slice); 0 = none.
+    cuad_plain_question_copies: int = 0
     long_negatives_per_example: float = 0.3
     synthetic_windows: int = 12000
     same_title_negative_rate: float = 0.0  # share of general questions also paired with another paragraph
@@ -94,6 +97,7 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
     from engine.training.label_choice import with_consensus_first
     from engine.training.removal_negatives import removed_sentence_negatives
     from engine.training.rewrite_negatives import rewritten_negatives
+    from engine.training.short_contract_questions import short_contract_questions
     from engine.training.swap_negatives import swapped_entity_negatives
 
     counts: dict[str, int] = {}
@@ -112,7 +116,10 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
             rng.shuffle(sliced)
             sliced = sliced[: config.cuad_answerable_limit]
             neg = expand_examples(negatives[: config.cuad_negative_limit], rng, 1.0)
-            items = sliced + neg
+            plain = [q for _ in range(config.cuad_plain_question_copies) for q in short_contract_questions(positives, rng)]
+            if plain:
+                counts[entry + " plain short-answer questions"] = len(plain)
+            items = sliced + neg + plain
         else:
             if config.consensus_labels:
                 relabelled = [with_consensus_first(e) for e in items]
