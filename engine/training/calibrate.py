@@ -2,8 +2,9 @@
 
 - quantisation: the fastest int8 variant whose F1 loss against fp32 is at most MAX_F1_LOSS with 95 % confidence,
   over three dev sets that count equally: TyDi-en dev (general text), CUAD dev answer slices (contract clauses)
-  and CUAD dev short answers (titles, parties and dates asked as plain questions, the product's commonest kind). The bound is the worst end of a stratified paired-bootstrap interval of the loss, and each set's
-  own loss must also be within MAX_F1_LOSS. A point estimate alone is not enough: on 440 questions its 95 %
+  and CUAD dev short answers (titles, parties and dates asked as plain questions, the product's commonest kind).
+  The bound is the worst end of a stratified paired-bootstrap interval of the loss, and each set's own loss must
+  also be within MAX_F1_LOSS. A point estimate alone is not enough: on 440 questions its 95 %
   interval is about 4 points wide, so noise could pick a variant that loses 3 points on new text;
 - the no-answer margin threshold: the lowest (most abstaining) margin whose answerable-question F1 on a dev mix
   stays within HASANS_F1_BUDGET of answering everything. The mix: TyDi-en dev with its own paragraph, the same

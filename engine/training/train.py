@@ -116,7 +116,8 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
             rng.shuffle(sliced)
             sliced = sliced[: config.cuad_answerable_limit]
             neg = expand_examples(negatives[: config.cuad_negative_limit], rng, 1.0)
-            plain = [q for _ in range(config.cuad_plain_question_copies) for q in short_contract_questions(positives, rng)]
+            plain = [q for _ in range(config.cuad_plain_question_copies)
+                     for q in short_contract_questions(positives, rng)]
             if plain:
                 counts[entry + " plain short-answer questions"] = len(plain)
             items = sliced + neg + plain
