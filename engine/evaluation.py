@@ -38,13 +38,15 @@ def predict_examples(
         part = examples[lo: lo + batch]
         readings = reader.read_pairs([(e.question, e.context) for e in part], n_best=1)
         for example, reading in zip(part, readings):
-            best = reading.spans[0] if reading.spans else None
-            text = best.text if best else ""
-            best_score = reading.best_score
-            if threshold is not None and reading.null_score - best_score > threshold:
-                text = ""
-            out[example.qid] = Prediction(text, best.text if best else "", best_score, reading.null_score)
+            out[example.qid] = prediction_from_reading(reading, threshold)
     return out
+
+
+def prediction_from_reading(reading, threshold: float | None) -> Prediction:
+    """A reading's answer (``spans[0]``); with a threshold, "" when null - best score > threshold."""
+    span_text = reading.spans[0].text if reading.spans else ""
+    abstain = threshold is not None and reading.null_score - reading.best_score > threshold
+    return Prediction("" if abstain else span_text, span_text, reading.best_score, reading.null_score)
 
 
 def open_corpus_passages(contexts: Sequence[str], hits: Sequence[tuple[int, float]]) -> list[ScoredPassage]:

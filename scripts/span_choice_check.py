@@ -24,8 +24,7 @@ ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
 from engine import defaults  # noqa: E402
-from engine.evaluation import paired_bootstrap  # noqa: E402
-from engine.metrics import f1_v1  # noqa: E402
+from engine.evaluation import paired_bootstrap, per_question_f1, prediction_from_reading  # noqa: E402
 from engine.reader.transformer_reader import TransformerReader, collect_readings  # noqa: E402
 from engine.reader.windows import build_windows  # noqa: E402
 from engine.training.calibrate import dev_answer_sets  # noqa: E402
@@ -48,10 +47,9 @@ def per_decoder_f1(reader: TransformerReader, examples: list) -> dict[str, np.nd
     out = {}
     for name, (candidates, temperature) in DECODERS.items():
         readings = collect_readings(pairs, windows, logits, 1, reader.max_answer_tokens, candidates, temperature)
-        out[name] = np.array([
-            max(f1_v1(r.spans[0].text if r.spans else "", a.text) for a in e.answers)
-            for r, e in zip(readings, examples)
-        ])
+        predictions = {e.qid: prediction_from_reading(r, None) for e, r in zip(examples, readings)}
+        f1 = per_question_f1(predictions, examples)
+        out[name] = np.array([f1[e.qid] for e in examples])
     return out
 
 
