@@ -61,7 +61,8 @@ def test_demo_questions_cite_the_right_file_and_page(demo_results):
     misses = [(q["id"], q["answer"], [(a.text, a.citation.file, a.citation.page) for a in r.answers[:1]])
               for q, r in demo_results if not (r.answers and cites_gold(r.answers[0], q))]
     assert len(demo_results) >= 15
-    # Measured with the committed reader-v5: top-1 26/35, top-3 29/35, 2 abstentions (MODEL_CARD.md); floors leave a margin.
+    # Measured with the committed reader-v5: top-1 26/35, top-3 29/35, 2 abstentions (MODEL_CARD.md).
+    # The floors leave a margin.
     assert top1 >= 0.6 * len(demo_results), misses
     assert top3 >= 0.7 * len(demo_results), misses
 
