@@ -24,7 +24,7 @@ from dataclasses import dataclass
 from typing import Sequence
 
 from engine import defaults
-from engine.calibration import Calibration
+from engine.calibration import Calibration, abstains
 from engine.metrics import normalize_answer
 from engine.reader.interface import Reading, SpanReader
 from engine.types import Answer, AskResult, Citation, Passage
@@ -61,7 +61,7 @@ def rank_answers(
         return AskResult(question, (), True)
     candidates.sort(key=lambda c: -c[0])  # stable: ties keep BM25 order, then the reader's order (its answer first)
     best_margin = max(c[1] for c in candidates)
-    if -best_margin > calibration.null_margin_threshold:
+    if abstains(-best_margin, calibration.null_margin_threshold):
         return AskResult(question, (), True)
     merged: dict[str, tuple] = {}  # key -> (margin, scored passage, span, citation, other citations)
     order: list[str] = []

@@ -21,6 +21,13 @@ import numpy as np
 CALIBRATION_FILE = "excerptor.json"
 
 
+def abstains(null_margin, threshold: float):
+    """The no-answer rule (SQuAD 2.0 convention): abstain when null score - best span score > threshold, i.e. answer
+    only when the best span's margin m = best - null is at least -threshold; a higher threshold answers more.
+    Takes a float or a numpy array of null margins."""
+    return null_margin > threshold
+
+
 @dataclass(frozen=True)
 class Calibration:
     null_margin_threshold: float = 0.0  # abstain when null - best span > this

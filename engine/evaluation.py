@@ -2,15 +2,16 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Sequence
 
 import numpy as np
 
 from engine.answering import ScoredPassage
+from engine.calibration import abstains
 from engine.metrics import SquadScores, f1_v1, score_v1, score_v2
-from engine.reader.interface import SpanReader
+from engine.reader.interface import Reading, SpanReader
 from engine.squad_data import SquadExample, load_examples
 from engine.types import Passage
 
@@ -42,11 +43,13 @@ def predict_examples(
     return out
 
 
-def prediction_from_reading(reading, threshold: float | None) -> Prediction:
-    """A reading's answer (``spans[0]``); with a threshold, "" when null - best score > threshold."""
+def prediction_from_reading(reading: Reading, threshold: float | None) -> Prediction:
+    """A reading's answer (``spans[0]``); with a threshold, "" where ``calibration.abstains``."""
     span_text = reading.spans[0].text if reading.spans else ""
-    abstain = threshold is not None and reading.null_score - reading.best_score > threshold
-    return Prediction("" if abstain else span_text, span_text, reading.best_score, reading.null_score)
+    prediction = Prediction(span_text, span_text, reading.best_score, reading.null_score)
+    if threshold is not None and abstains(prediction.null_margin, threshold):
+        return replace(prediction, text="")
+    return prediction
 
 
 def open_corpus_passages(contexts: Sequence[str], hits: Sequence[tuple[int, float]]) -> list[ScoredPassage]:

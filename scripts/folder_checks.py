@@ -27,7 +27,7 @@ sys.path.insert(0, str(ROOT))
 from engine import defaults  # noqa: E402
 from engine.answering import rank_answers  # noqa: E402
 from engine.bm25 import Bm25Index  # noqa: E402
-from engine.calibration import load_calibration  # noqa: E402
+from engine.calibration import abstains, load_calibration  # noqa: E402
 from engine.evaluation import open_corpus_passages, paired_bootstrap  # noqa: E402
 from engine.metrics import f1_v1  # noqa: E402
 from engine.reader.transformer_reader import TransformerReader  # noqa: E402
@@ -72,14 +72,14 @@ def main() -> int:
                               contexts, 1)
         margins_without.append(best_without)
     fused_f1, with_m, without_m = np.array(fused), np.array(margins_with), np.array(margins_without)
-    answered = -with_m <= calibration.null_margin_threshold  # the app abstains when null - best > threshold
+    answered = ~abstains(-with_m, calibration.null_margin_threshold)
     app_by_confidence, app_fused = np.array(by_confidence) * answered, fused_f1 * answered
     gain, low, high = paired_bootstrap(app_by_confidence.tolist(), app_fused.tolist())
 
-    def at(threshold: float) -> dict:  # the app abstains when null - best > threshold
+    def at(threshold: float) -> dict:
         return {"threshold": round(float(threshold), 3),
-                "first_answer_f1": round(100 * float(np.mean(fused_f1 * (-with_m <= threshold))), 2),
-                "unanswerable_abstained_pct": round(100 * float(np.mean(-without_m > threshold)), 2)}
+                "first_answer_f1": round(100 * float(np.mean(fused_f1 * ~abstains(-with_m, threshold))), 2),
+                "unanswerable_abstained_pct": round(100 * float(np.mean(abstains(-without_m, threshold))), 2)}
 
     open_f1 = 100 * float(fused_f1.mean())
     curve = [at(t) for t in np.unique(np.round(np.concatenate([-with_m, -without_m]), 3))]

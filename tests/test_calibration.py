@@ -3,8 +3,11 @@
 
 import pytest
 
-from engine.calibration import Calibration, load_calibration
-from engine.evaluation import Prediction
+import numpy as np
+
+from engine.calibration import Calibration, abstains, load_calibration
+from engine.evaluation import Prediction, prediction_from_reading
+from engine.reader.interface import ReadSpan, Reading
 from engine.squad_data import GoldAnswer, SquadExample
 from engine.training.calibrate import best_threshold, budget_threshold
 
@@ -12,6 +15,23 @@ from engine.training.calibrate import best_threshold, budget_threshold
 def ex(qid, answer):
     answers = (GoldAnswer(answer, 0),) if answer else ()
     return SquadExample(qid, "", "q", answer or "ctx", answers, not answers)
+
+
+def test_no_answer_rule_abstains_only_when_null_beats_the_best_span_by_more_than_the_threshold():
+    # SQuAD 2.0 convention (from memory: the reference BERT SQuAD 2.0 script predicts "" when
+    # score_null - best_non_null_score > null_score_diff_threshold). Hand-made values.
+    assert abstains(0.5, 0.33) and not abstains(0.2, 0.33) and not abstains(0.33, 0.33)
+    assert abstains(np.array([-1.0, 0.0, 1.0]), 0.0).tolist() == [False, False, True]
+    # a higher threshold answers more: null - best = 0.5 abstains at 0.33 and answers at 0.64
+    assert not abstains(0.5, 0.64)
+
+
+def test_prediction_from_reading_applies_the_same_rule():
+    reading = Reading((ReadSpan(0, 5, "Lot 7", 3.0),), null_score=3.5, n_windows=1)  # null - best = 0.5
+    assert prediction_from_reading(reading, 0.33).text == ""
+    assert prediction_from_reading(reading, 0.64).text == "Lot 7"
+    assert prediction_from_reading(reading, None).text == "Lot 7"
+    assert prediction_from_reading(reading, 0.33).span_text == "Lot 7"
 
 
 def test_threshold_separates_answerable_from_unanswerable():

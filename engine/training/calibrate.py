@@ -28,7 +28,7 @@ from pathlib import Path
 import numpy as np
 
 from engine.bm25 import Bm25Index
-from engine.calibration import Calibration, fit_logistic
+from engine.calibration import Calibration, abstains, fit_logistic
 from engine.answering import rank_answers
 from engine.evaluation import open_corpus_passages, per_question_f1, predict_examples, stratified_paired_bootstrap
 from engine.metrics import f1_v1, f1_v2
@@ -68,7 +68,7 @@ def abstention_by_kind(predictions, examples, threshold: float) -> dict[str, flo
         if e.answers:
             continue
         kind = next((name for suffix, name in NEGATIVE_KINDS.items() if suffix in e.qid), "other")
-        seen.setdefault(kind, []).append(predictions[e.qid].null_margin > threshold)
+        seen.setdefault(kind, []).append(abstains(predictions[e.qid].null_margin, threshold))
     return {kind: round(100.0 * sum(v) / len(v), 2) for kind, v in sorted(seen.items())}
 
 
@@ -112,7 +112,7 @@ def budget_threshold(predictions, examples, budget: float = HASANS_F1_BUDGET) ->
         if f1 >= full - budget:
             chosen, kept = t, f1
             break
-    abstained = sum(1 for m in unanswerable if m > chosen) / len(unanswerable) if unanswerable else 0.0
+    abstained = sum(1 for m in unanswerable if abstains(m, chosen)) / len(unanswerable) if unanswerable else 0.0
     return {"threshold": float(chosen), "has_ans_f1_all": round(full, 2), "has_ans_f1": round(kept, 2),
             "no_ans_abstained": round(100.0 * abstained, 2)}
 
