@@ -9,7 +9,9 @@ Pipeline for one question:
 4. identical answers (same normalised text) merge into the best-ranked one, keeping the other citations; a
    different span that overlaps a better-ranked one on the same page (say "ninety (90) days" inside "ninety (90)
    days' prior written notice") is the same clause read twice, and is dropped (non-maximum suppression);
-5. abstain (no answers) when the best span's null margin exceeds the calibrated threshold;
+5. abstain (no answers) when the best span's null margin exceeds the calibrated threshold; the closest spans are
+   then kept apart, at most ``defaults.TOP_N_BELOW_THRESHOLD`` and all marked low confidence, so that a reviewer
+   can still read a right clause the reader doubted (an abstention does not prove a clause is absent);
 6. confidence = the calibrated logistic of m, in [0, 1].
 
 Answers are listed in fused order, the order that ``calibrate`` chose mu for, so a lower-confidence answer from a
@@ -20,7 +22,7 @@ first-answer F1 55.6 against 57.9 in fused order on the TyDi-en dev open corpus:
 from __future__ import annotations
 
 import time
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Sequence
 
 from engine import defaults
@@ -43,10 +45,13 @@ def rank_answers(
     calibration: Calibration,
     top_n: int = defaults.TOP_N_ANSWERS,
     low_confidence_below: float = defaults.LOW_CONFIDENCE_BELOW,
+    top_n_below_threshold: int = defaults.TOP_N_BELOW_THRESHOLD,
 ) -> AskResult:
     """Pure ranking step (no model, no index): turns passage readings into an ``AskResult``, answers in fused order."""
     if top_n < 1:
         raise ValueError(f"top_n must be >= 1 (got {top_n})")
+    if top_n_below_threshold < 0:
+        raise ValueError(f"top_n_below_threshold must be >= 0 (got {top_n_below_threshold})")
     if len(passages) != len(readings):
         raise ValueError(f"one reading per passage is needed (got {len(passages)} and {len(readings)})")
     bm25_max = max((p.bm25 for p in passages), default=0.0)
@@ -62,7 +67,15 @@ def rank_answers(
     candidates.sort(key=lambda c: -c[0])  # stable: ties keep BM25 order, then the reader's order (its answer first)
     best_margin = max(c[1] for c in candidates)
     if abstains(-best_margin, calibration.null_margin_threshold):
-        return AskResult(question, (), True)
+        closest = merged_answers(candidates, top_n_below_threshold, calibration, low_confidence_below=1.0)
+        return AskResult(question, (), True, below_threshold=closest)
+    return AskResult(question, merged_answers(candidates, top_n, calibration, low_confidence_below), False)
+
+
+def merged_answers(candidates: list[tuple], top_n: int, calibration: Calibration,
+                   low_confidence_below: float) -> tuple[Answer, ...]:
+    """The first ``top_n`` distinct answers of (fused, margin, scored passage, span) candidates in fused order:
+    equal normalised texts merge (keeping the other citations), overlapping different spans are dropped."""
     merged: dict[str, tuple] = {}  # key -> (margin, scored passage, span, citation, other citations)
     order: list[str] = []
     cited: list[Citation] = []
@@ -90,7 +103,7 @@ def rank_answers(
             low_confidence=confidence < low_confidence_below, reader_logit=margin,
             retrieval_score=scored.bm25, also_found=tuple(others),
         ))
-    return AskResult(question, tuple(answers), False)
+    return tuple(answers)
 
 
 def overlaps(a: Citation, b: Citation) -> bool:
@@ -126,5 +139,4 @@ class Answerer:
         readings = self.reader.read_pairs([(question, sp.passage.text) for sp in passages], n_best=5)
         result = rank_answers(question, passages, readings, self.calibration, top_n)
         scope = f"document {doc}" if doc else (f"folder {subfolder}" if subfolder else None)
-        return AskResult(result.question, result.answers, result.abstained,
-                         round(time.perf_counter() - started, 4), scope)
+        return replace(result, seconds=round(time.perf_counter() - started, 4), scope=scope)

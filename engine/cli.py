@@ -33,25 +33,33 @@ def quoted_span(text: str) -> str:
 
 
 def answer_json(result, folder: Path) -> dict:
-    """The CLI's JSON schema for one question."""
+    """The CLI's JSON schema for one question. ``below_threshold``: after an abstention, the closest spans."""
+
+    def one(a) -> dict:
+        return {"text": a.text, "score": round(float(a.score), 6), "file": a.citation.file,
+                "page": a.citation.page, "start": a.citation.start, "end": a.citation.end,
+                "passage": a.passage, "low_confidence": a.low_confidence, "locator": a.citation.locator}
+
     return {
         "question": result.question,
-        "answers": [
-            {"text": a.text, "score": round(float(a.score), 6), "file": a.citation.file,
-             "page": a.citation.page, "start": a.citation.start, "end": a.citation.end,
-             "passage": a.passage, "low_confidence": a.low_confidence, "locator": a.citation.locator}
-            for a in result.answers
-        ],
+        "answers": [one(a) for a in result.answers],
         "abstained": result.abstained,
+        "below_threshold": [one(a) for a in result.below_threshold],
     }
+
+
+BELOW_THRESHOLD_NOTE = ("   Closest spans, below the answer threshold (the reader doubts them; read the source before "
+                        "relying on one):")
 
 
 def print_readable(result) -> None:
     print(f"Q: {result.question}")
     if result.abstained:
         print("   The folder does not seem to answer this question.")
-    for rank, a in enumerate(result.answers, 1):
-        flag = "  [LOW CONFIDENCE]" if a.low_confidence else ""
+        if result.below_threshold:
+            print(BELOW_THRESHOLD_NOTE)
+    for rank, a in enumerate(result.shown, 1):
+        flag = "  [BELOW THRESHOLD]" if result.abstained else ("  [LOW CONFIDENCE]" if a.low_confidence else "")
         where = f"{printable(a.citation.file)}, {a.citation.locator}"
         print(f"{rank:>2}. {quoted_span(a.text)}  confidence {a.score:.2f}{flag}\n    {where}, characters {a.citation.start}-{a.citation.end}")
     print(f"\n{CAUTION}")

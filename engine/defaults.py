@@ -27,6 +27,8 @@ TOP_K_PASSAGES = 8
 
 # Answers.
 TOP_N_ANSWERS = 5
+# After an abstention, the closest spans still shown, marked below the threshold (no source: a design choice).
+TOP_N_BELOW_THRESHOLD = 3
 LOW_CONFIDENCE_BELOW = 0.5
 
 # Index location inside the indexed folder.

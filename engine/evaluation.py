@@ -88,12 +88,15 @@ def cites_gold(answer, question: dict, min_f1: float = 0.5) -> bool:
 
 
 def folder_hit_counts(results) -> dict[str, int]:
-    """Counts over (question, AskResult) pairs: hits at rank 1, hits anywhere in the listed answers, abstentions."""
+    """Counts over (question, AskResult) pairs: hits at rank 1, hits anywhere in the listed answers, abstentions,
+    and abstentions whose closest spans (shown below the threshold) hold a hit."""
     results = list(results)
     return {"questions": len(results),
             "top1": sum(bool(r.answers) and cites_gold(r.answers[0], q) for q, r in results),
             "listed": sum(any(cites_gold(a, q) for a in r.answers) for q, r in results),
-            "abstained": sum(r.abstained for q, r in results)}
+            "abstained": sum(r.abstained for q, r in results),
+            "abstained_hit_below_threshold": sum(r.abstained and any(cites_gold(a, q) for a in r.below_threshold)
+                                                 for q, r in results)}
 
 
 def paired_bootstrap(

@@ -150,9 +150,11 @@ def markdown_report(rows: list[dict]) -> str:
     undecided = sum(1 for r in rows if r["decision"] is None)
     low = sum(1 for r in rows if r["low_confidence"])
     no_answer = sum(1 for r in rows if r["answer"] is None)
+    below = sum(1 for r in rows if r["below_threshold"])
     lines = ["# Excerptor answer log", "", f"> {CAUTION}", "", "## Summary", "",
-             f"{len(rows)} rows: {len(rows) - no_answer} answers, {no_answer} with no answer found; "
-             f"{low} low confidence.", "", "| Decision | Rows |", "|---|---:|"]
+             f"{len(rows)} rows: {len(rows) - no_answer - below} answers, {below} closest spans below the answer "
+             f"threshold (the question abstained), {no_answer} with no answer found; {low} low confidence.", "",
+             "| Decision | Rows |", "|---|---:|"]
     lines += [f"| {d} | {n} |" for d, n in counts.items()] + [f"| undecided | {undecided} |", ""]
     groups: dict[tuple, list[dict]] = {}
     for row in rows:
@@ -169,7 +171,9 @@ def markdown_report(rows: list[dict]) -> str:
         for r in group:
             answer = "_no answer found_" if r["answer"] is None else r["answer"]
             confidence = "" if r["confidence"] is None else f"{r['confidence']:.2f}"
-            if r["low_confidence"]:
+            if r["below_threshold"]:
+                confidence += " (below threshold)"
+            elif r["low_confidence"]:
                 confidence += " (low)"
             cells = (answer, confidence, r["file"], _where(r), _decision_text(r), r["note"])
             lines.append("| " + " | ".join(_md_cell(c) for c in cells) + " |")

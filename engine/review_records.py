@@ -14,8 +14,9 @@ from datetime import datetime, timezone
 DECISIONS = ("accepted", "rejected", "corrected")
 
 # The documented keys of a ``log_rows()`` row, in export column order.
-LOG_COLUMNS = ("source", "question", "label", "answer", "corrected_text", "confidence", "low_confidence", "file",
-               "page", "locator", "start", "end", "decision", "note", "asked_at", "decided_at")
+LOG_COLUMNS = ("source", "question", "label", "answer", "corrected_text", "confidence", "low_confidence",
+               "below_threshold", "file", "page", "locator", "start", "end", "decision", "note", "asked_at",
+               "decided_at")
 
 
 @dataclass(frozen=True)
@@ -47,6 +48,7 @@ class StoredAnswer:
     corrected_text: str | None
     note: str | None
     decided_at: str | None
+    below_threshold: bool = False  # a closest span shown after the question abstained, not an answer
 
 
 @dataclass(frozen=True)
@@ -115,7 +117,8 @@ def log_row(base: dict, item: StoredAnswer | SweepCell | None, file: str | None 
     return {
         "source": base["source"], "question": base["question"], "label": base["label"], "answer": text,
         "corrected_text": get("corrected_text"), "confidence": None if score is None else round(score, 4),
-        "low_confidence": bool(get("low_confidence")), "file": file if file is not None else get("file"),
+        "low_confidence": bool(get("low_confidence")), "below_threshold": bool(getattr(item, "below_threshold", False)),
+        "file": file if file is not None else get("file"),
         "page": get("page"), "locator": get("locator"), "start": get("start"), "end": get("end"),
         "decision": get("decision"), "note": get("note"), "asked_at": base["asked_at"],
         "decided_at": get("decided_at"), "passage": get("passage"), "passage_start": get("passage_start"),
@@ -125,7 +128,7 @@ def log_row(base: dict, item: StoredAnswer | SweepCell | None, file: str | None 
 def stored_answer_from_row(r: sqlite3.Row) -> StoredAnswer:
     return StoredAnswer(r["answer_id"], r["question_id"], r["rank"], r["text"], r["score"], bool(r["low_confidence"]),
                         r["file"], r["page"], r["locator"], r["start"], r["end"], r["passage"], r["passage_start"],
-                        r["decision"], r["corrected_text"], r["note"], r["decided_at"])
+                        r["decision"], r["corrected_text"], r["note"], r["decided_at"], bool(r["below_threshold"]))
 
 
 def sweep_cell_from_row(r: sqlite3.Row) -> SweepCell:

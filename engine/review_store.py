@@ -57,8 +57,10 @@ CREATE TABLE IF NOT EXISTS cells (
 );
 """
 
+# An answer stored under an abstained question is one of its closest spans below the threshold (AskResult.shown).
 _ANSWER_COLS = ('answer_id, question_id, rank, text, score, low_confidence, file, page, locator, start, "end", '
-                'passage, passage_start, decision, corrected_text, note, decided_at')
+                'passage, passage_start, decision, corrected_text, note, decided_at, '
+                '(SELECT q.abstained FROM questions q WHERE q.question_id = answers.question_id) AS below_threshold')
 _CELL_COLS = ('cell_id, checklist, doc_path, doc_sha256, label, question, question_hash, answer, score, '
               'low_confidence, page, locator, start, "end", passage, passage_start, abstained, decision, '
               'corrected_text, note, decided_at, swept_at')
@@ -126,7 +128,8 @@ class ReviewStore:
 
     # -- asked questions -------------------------------------------------------------------------------
     def record_question(self, result: AskResult) -> int:
-        """Store a question, its scope and all its answers (rank 1 = first) in one transaction."""
+        """Store a question, its scope and all its answers (rank 1 = first) in one transaction; for an abstained
+        question, the closest spans below the threshold take the answers' place."""
         if not isinstance(result, AskResult):
             raise ValueError(f"an AskResult is needed (got {type(result).__name__})")
         require_text("question", result.question)
@@ -141,7 +144,7 @@ class ReviewStore:
                 " passage, passage_start) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
                 [(qid, rank, a.text, float(a.score), int(a.low_confidence), a.citation.file, a.citation.page,
                   a.citation.locator, a.citation.start, a.citation.end, a.passage, a.passage_start)
-                 for rank, a in enumerate(result.answers, 1)])
+                 for rank, a in enumerate(result.shown, 1)])
         return qid
 
     def history(self) -> list[HistoryEntry]:

@@ -96,7 +96,12 @@ class Answer:
 
 @dataclass(frozen=True)
 class AskResult:
-    """The answers to one question, best first. ``abstained`` is True when the folder does not seem to answer."""
+    """The answers to one question, best first. ``abstained`` is True when the folder does not seem to answer.
+
+    Invariant: an abstained result has no ``answers``, and may list in ``below_threshold`` the closest spans the
+    reader found (best first, each marked low confidence), so that a reviewer can still read them; a result that
+    answers has no ``below_threshold`` spans.
+    """
 
     question: str
     answers: tuple[Answer, ...]
@@ -104,3 +109,15 @@ class AskResult:
     seconds: float = 0.0
     scope: str | None = None
     notes: tuple[str, ...] = field(default_factory=tuple)
+    below_threshold: tuple[Answer, ...] = ()
+
+    def __post_init__(self) -> None:
+        if self.abstained and self.answers:
+            raise ValueError(f"an abstained result has no answers (got {len(self.answers)})")
+        if not self.abstained and self.below_threshold:
+            raise ValueError(f"below-threshold spans belong to an abstained result (got {len(self.below_threshold)})")
+
+    @property
+    def shown(self) -> tuple[Answer, ...]:
+        """What a reviewer sees: the answers, or, after an abstention, the closest spans below the threshold."""
+        return self.below_threshold if self.abstained else self.answers

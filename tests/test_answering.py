@@ -65,7 +65,41 @@ def test_abstains_when_null_wins_by_more_than_threshold():
     assert result.abstained and result.answers == ()
     readings = [Reading((span(P1, "ninety (90) days", 2.5),), 4.0, 1)]  # 1.5 <= 2.0: answer, low confidence
     result = rank_answers("notice?", [ScoredPassage(P1, 3.0)], readings, CAL)
-    assert not result.abstained and result.answers[0].low_confidence
+    assert not result.abstained and result.answers[0].low_confidence and result.below_threshold == ()
+
+
+def test_an_abstention_keeps_the_closest_spans_below_the_threshold():
+    # Both passages' best spans lose to null by more than 2.0 (margins 1 - 4 = -3 and 0.5 - 3 = -2.5): abstain.
+    # The closest spans stay, in fused order: P1 0.5 * 10/10 + 0.5 * -3 = -1.0 ; P2 0.5 * 5/10 + 0.5 * -2.5 = -1.0;
+    # a tie keeps BM25 order. Confidence sigmoid(-3) = 0.047 would not be LOW under a line of 0.04, but every
+    # closest span is marked low confidence, whatever its score.
+    readings = [Reading((span(P1, "ninety (90) days", 1.0),), 4.0, 1),
+                Reading((span(P2, "in writing", 0.5),), 3.0, 1)]
+    passages = [ScoredPassage(P1, 10.0), ScoredPassage(P2, 5.0)]
+    result = rank_answers("Who is the guarantor?", passages, readings, CAL, low_confidence_below=0.04)
+    assert result.abstained and result.answers == ()
+    assert [a.text for a in result.below_threshold] == ["ninety (90) days", "in writing"]
+    assert result.shown == result.below_threshold
+    assert [a.score for a in result.below_threshold] == pytest.approx(
+        [1 / (1 + math.exp(3.0)), 1 / (1 + math.exp(2.5))], abs=1e-6)
+    assert all(a.low_confidence for a in result.below_threshold)
+    capped = rank_answers("Who is the guarantor?", passages, readings, CAL, top_n_below_threshold=1)
+    assert [a.text for a in capped.below_threshold] == ["ninety (90) days"]
+    assert rank_answers("q", passages, readings, CAL, top_n_below_threshold=0).below_threshold == ()
+    with pytest.raises(ValueError, match=r"\(got -1\)"):
+        rank_answers("q", passages, readings, CAL, top_n_below_threshold=-1)
+
+
+def test_ask_result_keeps_answers_and_below_threshold_spans_apart():
+    from engine.types import AskResult
+
+    answer = rank_answers("notice?", [ScoredPassage(P1, 3.0)], [Reading((span(P1, "ninety (90) days", 6.0),), 1.0, 1)],
+                          CAL).answers[0]
+    with pytest.raises(ValueError, match=r"\(got 1\)"):
+        AskResult("q", (answer,), True)
+    with pytest.raises(ValueError, match=r"\(got 1\)"):
+        AskResult("q", (), False, below_threshold=(answer,))
+    assert AskResult("q", (answer,), False).shown == (answer,)
 
 
 def test_no_passages_means_abstention_and_bad_arguments_raise():
@@ -125,8 +159,12 @@ def test_folder_hit_counts_use_file_page_and_token_f1():
     assert not cites_gold(first, dict(lease, page=4))  # right text, wrong page
     supply = {"file": "supply.pdf", "page": 2, "answer": "ninety (90) days"}  # right place, F1 0 for "in writing"
     abstained = rank_answers("guarantor?", [], [], CAL)
-    counts = folder_hit_counts([(lease, result), (supply, result), (lease, abstained)])
-    assert counts == {"questions": 3, "top1": 1, "listed": 1, "abstained": 1}
+    # An abstention whose closest span (null - best = 4 - 1 = 3 > 2.0) cites the gold counts apart from the hits.
+    doubted = rank_answers("notice?", [ScoredPassage(P1, 8.0)], [Reading((span(P1, "ninety (90) days", 1.0),), 4.0, 1)],
+                           CAL)
+    assert doubted.abstained and cites_gold(doubted.below_threshold[0], lease)
+    counts = folder_hit_counts([(lease, result), (supply, result), (lease, abstained), (lease, doubted)])
+    assert counts == {"questions": 4, "top1": 1, "listed": 1, "abstained": 2, "abstained_hit_below_threshold": 1}
 
 
 def test_open_corpus_paragraphs_are_separate_documents():

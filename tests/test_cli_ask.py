@@ -89,3 +89,23 @@ def test_readable_answer_stays_on_one_line_and_keeps_its_exact_offsets(capsys):
     assert " 1. 'one (1) additional period of ten (10) years'  confidence 0.80\n" in out
     assert f"lease.pdf, p. 2, characters {start}-{end}" in out
     assert quoted_span("a\n\n  b") == "'a b'"
+
+
+def test_an_abstention_prints_its_closest_spans_marked_below_the_threshold(capsys):
+    from engine.cli import BELOW_THRESHOLD_NOTE, answer_json, print_readable
+    from engine.types import Answer, AskResult, Citation
+
+    page = "The Tenant shall insure the premises for two million dollars ($2,000,000) per occurrence."
+    start = page.index("two million")
+    end = page.index(" per occurrence")
+    closest = Answer(page[start:end], 0.31, Citation("lease.pdf", 4, "p. 4", start, end), page, 0,
+                     low_confidence=True)
+    result = AskResult("What insurance limit applies?", (), True, below_threshold=(closest,))
+    print_readable(result)
+    out = capsys.readouterr().out
+    assert "does not seem to answer" in out and BELOW_THRESHOLD_NOTE in out
+    assert " 1. 'two million dollars ($2,000,000)'  confidence 0.31  [BELOW THRESHOLD]\n" in out
+    obj = answer_json(result, Path("."))
+    assert obj["abstained"] and obj["answers"] == []
+    assert [(a["text"], a["start"], a["end"], a["low_confidence"]) for a in obj["below_threshold"]] == [
+        (page[start:end], start, end, True)]

@@ -35,6 +35,8 @@ def rows(tmp_path) -> list[dict]:
             _answer("=1+2 units", 0.876543, "leases/unit-4.txt", 124),
             _answer("ten days", 0.21, "leases/unit-4.txt", 190, low=True)), False))
         store.record_question(AskResult("Who insures the building?", (), True))
+        store.record_question(AskResult("Who repairs the roof?", (), True, below_threshold=(
+            _answer("ten days", 0.18, "leases/unit-4.txt", 190, low=True),)))
         first, second = store.load_question(qid)[1]
         store.set_decision(first.answer_id, "corrected", corrected_text="-3 units", note="@check | line\nbreak")
         store.set_decision(second.answer_id, "rejected", note="+ wrong clause")
@@ -43,7 +45,7 @@ def rows(tmp_path) -> list[dict]:
         store.set_cell_decision(cell.cell_id, "accepted")
         store.upsert_cell("leases", "leases/unit-4.txt", "sha-1", "Insurance", "Who insures?", None, True)
         out = store.log_rows()
-    assert len(out) == 5
+    assert len(out) == 6
     return out
 
 
@@ -119,14 +121,15 @@ def test_markdown_report(rows, tmp_path):
     assert lines[0] == "# Excerptor answer log"
     assert text.index(CAUTION) < text.index("## Summary")
     assert "| accepted | 1 |" in lines and "| rejected | 1 |" in lines and "| corrected | 1 |" in lines
-    assert "| undecided | 2 |" in lines
-    assert "1 low confidence" in text
-    assert sum(1 for line in lines if line.startswith("## ") and line[3].isdigit()) == 4  # 2 asked, 2 labels
+    assert "| undecided | 3 |" in lines
+    assert "6 rows: 3 answers, 1 closest spans below the answer threshold" in text and "2 low confidence" in text
+    assert sum(1 for line in lines if line.startswith("## ") and line[3].isdigit()) == 5  # 3 asked, 2 labels
     # GitHub Flavored Markdown spec, tables extension: a literal pipe inside a cell is written "\|".
     assert "What rent \\| fee is due?" in text
     row = next(line for line in lines if line.startswith("| =1+2 units | 0.88 |"))
     assert "@check \\| line break" in row and "corrected to" in row
     assert any(line.startswith("| ten days | 0.21 (low) |") for line in lines)
+    assert any(line.startswith("| ten days | 0.18 (below threshold) |") for line in lines)
     assert text.count("_no answer found_") == 2
     for line in lines:
         if line.startswith("| ") and not line.startswith("| Decision"):

@@ -95,6 +95,23 @@ def test_history_newest_first_and_abstained(tmp_path):
         assert store.load_question(second)[1] == []
 
 
+def test_closest_spans_of_an_abstained_question_are_stored_as_below_threshold(tmp_path):
+    closest = (_answer(score=0.31, low=True), _answer("the other party", 0.22, start=80, low=True))
+    with ReviewStore(tmp_path) as store:
+        answered = store.record_question(_result("What is the rent?", n=1))
+        doubted = store.record_question(AskResult("Who repairs the roof?", (), True, below_threshold=closest))
+        entry, stored = store.load_question(doubted)
+        assert entry.abstained and entry.n_answers == 2
+        assert [(a.rank, a.text, a.below_threshold, a.low_confidence) for a in stored] == [
+            (1, "thirty (30) days", True, True), (2, "the other party", True, True)]
+        assert not store.load_question(answered)[1][0].below_threshold
+        # A closest span can be reviewed like an answer; the decision keeps the flag.
+        assert store.set_decision(stored[0].answer_id, "accepted").below_threshold
+        rows = [r for r in store.log_rows() if r["question"] == "Who repairs the roof?"]
+        assert [(r["answer"], r["below_threshold"], r["decision"]) for r in rows] == [
+            ("thirty (30) days", True, "accepted"), ("the other party", True, None)]
+
+
 def test_failed_write_rolls_back_whole_question(tmp_path):
     unbindable = Answer(object(), 0.5, Citation("a.txt", 1, "p. 1", 0, 3), "abc", 0)  # type: ignore[arg-type]
     bad = AskResult("What is the rent?", (_answer(), unbindable), False)

@@ -17,6 +17,7 @@ from tui.spans import confidence_chip, decision_chip, one_line, snippet, where
 
 NO_ANSWER = "The folder does not seem to answer this question."
 NO_ANSWER_HINT = "Try other words, or widen the scope (w)."
+BELOW_THRESHOLD_TAG = "below threshold"
 WAITING = ("Answers appear here, best match first (passage fit and reader together), each with its confidence "
            "(LOW when the engine doubts it), document and page, and a few words of context. Up/Down move; the "
            "source shows on the right.")
@@ -89,7 +90,8 @@ class AnswerList(OptionList):
         return self.answers[self.highlighted]
 
     def show(self, answers: list, abstained: bool) -> None:
-        """Replace the list; the best answer is highlighted."""
+        """Replace the list; the best answer is highlighted. After an abstention ``answers`` are the closest spans
+        below the threshold (each tagged so), and they can be reviewed like answers."""
         self.answers = list(answers)
         self.abstained = abstained or not answers
         self.clear_options()
@@ -121,6 +123,9 @@ class AnswerList(OptionList):
             text.append(")", palette.MUTED)
         else:
             text.append(one_line(a.text), "bold" if a.decision != "rejected" else palette.MUTED + " strike")
+        if a.below_threshold:
+            text.append("  ")
+            text.append(BELOW_THRESHOLD_TAG, palette.BELOW_THRESHOLD)
         if a.decision:
             text.append("  ")
             text.append_text(decision_chip(a.decision))

@@ -34,6 +34,8 @@ from tui.text_prompt_screen import TextPromptScreen
 READER_LOADING = "loading reader…"
 READER_READY = "reader ready"
 STORE_ERRORS = (ValueError, sqlite3.Error, OSError)
+BELOW_THRESHOLD_HEADING = ("The folder does not seem to answer this question. The closest spans below are under the "
+                           "answer threshold: the reader doubts them, so read the source before relying on one.")
 TYPED_KEYS = {"ask", "scope", "clear_scope", "history", "export", "grid", "problems"}
 
 
@@ -301,6 +303,8 @@ class DeskScreen(Screen[None]):
         heading = Text("Answers to: ", style=palette.MUTED, end="")
         heading.append(entry.question, "bold")
         heading.append(f"   ({entry.scope or 'whole folder'})", palette.MUTED)
+        if entry.abstained and answers:
+            heading.append("\n" + BELOW_THRESHOLD_HEADING, palette.BELOW_THRESHOLD)
         self.query_one("#desk-question", Static).update(heading)
         answer_list = self.query_one(AnswerList)
         answer_list.show(answers, entry.abstained)

@@ -68,8 +68,10 @@ class HistoryScreen(ModalScreen[int | None]):
         entry, answers = self.store.load_question(self.entries[index].question_id)
         text = Text(entry.question, style="bold", end="")
         text.append(f"\n{entry.scope or 'whole folder'}\n\n", palette.MUTED)
-        if not answers:
+        if entry.abstained:
             text.append("The folder did not seem to answer this question.", "italic")
+            if answers:
+                text.append("\nClosest spans, below the answer threshold:\n", palette.MUTED)
         for a in answers:
             text.append(f"{a.rank:>2} ")
             text.append_text(confidence_chip(a.score, a.low_confidence))
@@ -89,7 +91,9 @@ class HistoryScreen(ModalScreen[int | None]):
     def _prompt(entry) -> Text:
         when = entry.asked_at.replace("T", " ")[:16]
         text = Text(entry.question, end="")
-        note = "no answer" if entry.abstained or not entry.n_answers else f"{entry.n_answers} answers"
+        note = f"{entry.n_answers} answers" if entry.n_answers else "no answer"
+        if entry.abstained:
+            note = "no answer" + (f" · {entry.n_answers} below threshold" if entry.n_answers else "")
         text.append(f"\n  {when} · {note}", palette.MUTED)
         if entry.scope:
             text.append(" · " + entry.scope, palette.MUTED)

@@ -30,6 +30,7 @@ CLAUSE = "on #24344A"  # the clause around the answer
 MATCH = "#12171D on #8FB8C9"  # a find-in-document hit
 MATCH_NOW = "bold #12171D on #E58F65"  # the current find hit
 MUTED = "#8594A3"
+BELOW_THRESHOLD = "italic #E58F65"  # a closest span shown after an abstention, not an answer
 FILE = "bold #8FC7D2"
 
 BAND_STYLE = {

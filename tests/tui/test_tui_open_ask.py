@@ -7,6 +7,7 @@ pypdf (an independent PDF reader) for the text around a highlighted answer.
 from __future__ import annotations
 
 import threading
+from dataclasses import replace
 
 from pypdf import PdfReader
 
@@ -16,8 +17,8 @@ from tests.tui.tui_harness import (DEMO, GOVERNING_LAW, SIZE, ask, build_app, de
                                    running_app, settle)
 from textual.widgets import Input, ProgressBar, Static
 from tui import palette
-from tui.answer_list import NO_ANSWER, AnswerList
-from tui.desk_screen import READER_LOADING, READER_READY
+from tui.answer_list import BELOW_THRESHOLD_TAG, NO_ANSWER, AnswerList
+from tui.desk_screen import BELOW_THRESHOLD_HEADING, READER_LOADING, READER_READY
 from tui.index_meter import IndexMeter
 from tui.problems_screen import ProblemsScreen
 from tui.source_preview import SourcePreview
@@ -144,6 +145,35 @@ async def test_abstention_says_so_plainly(tmp_path):
         assert NO_ANSWER in answer_list.get_option_at_index(0).prompt.plain
         entry = app.store.history()[0]
         assert entry.question == "Qwzxv plorkt?" and entry.abstained  # recorded even without answers
+
+
+@run_async
+async def test_an_abstention_shows_the_closest_spans_marked_below_the_threshold(tmp_path):
+    folder = demo_copy(tmp_path)
+    # A calibration that abstains unless the best span beats null by 100: every question abstains, and the
+    # closest spans must still be shown, tagged, and open to review.
+    strict = replace(FAKE_CALIBRATION, null_margin_threshold=-100.0)
+    async with running_app(folder, workspace=Workspace(folder, reader=FakeReader(), calibration=strict)) as (
+            app, pilot):
+        await ask(pilot, GOVERNING_LAW)
+        direct = Workspace(folder, reader=FakeReader(), calibration=strict).ask(GOVERNING_LAW)  # oracle: the engine
+        assert direct.abstained and direct.answers == () and direct.below_threshold
+        answer_list = app.desk.query_one(AnswerList)
+        assert answer_list.abstained
+        assert [(a.text, a.file, a.start, a.end) for a in answer_list.answers] == [
+            (x.text, x.citation.file, x.citation.start, x.citation.end) for x in direct.below_threshold]
+        for index, a in enumerate(answer_list.answers):
+            prompt = answer_list.get_option_at_index(index).prompt.plain
+            assert a.below_threshold and BELOW_THRESHOLD_TAG in prompt and " LOW " in prompt
+        heading = app.desk.query_one("#desk-question", Static).render()
+        assert BELOW_THRESHOLD_HEADING in str(heading)
+        # Reviewable like an answer: accepting the first one is stored, and the store keeps the flag.
+        await pilot.press("a")
+        await settle(pilot)
+        stored = app.store.answer(answer_list.answers[0].answer_id)
+        assert stored.decision == "accepted" and stored.below_threshold
+        entry = app.store.history()[0]
+        assert entry.abstained and entry.n_answers == len(direct.below_threshold)
 
 
 @run_async

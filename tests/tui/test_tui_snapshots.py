@@ -30,6 +30,10 @@ def test_snapshot_answers_with_preview(snap_compare):
     assert snap_compare(APPS / "desk_app.py", terminal_size=SNAP_SIZE, run_before=_answers)
 
 
+def test_snapshot_abstention_with_closest_spans(snap_compare):
+    assert snap_compare(APPS / "abstaining_desk_app.py", terminal_size=SNAP_SIZE, run_before=_answers)
+
+
 def test_snapshot_document_view(snap_compare):
     async def run_before(pilot) -> None:
         await _answers(pilot)

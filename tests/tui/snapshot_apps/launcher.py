@@ -16,11 +16,20 @@ if str(ROOT) not in sys.path:
 from tests.tui.tui_harness import build_app, demo_copy, fake_workspace  # noqa: E402
 
 
-def build(swept: bool = False):
-    """The app over a fresh copy; ``swept``: the default checklist already swept (for the grid)."""
+def build(swept: bool = False, abstaining: bool = False):
+    """The app over a fresh copy; ``swept``: the default checklist already swept (for the grid); ``abstaining``: a
+    calibration under which every question abstains (to show the closest spans below the threshold)."""
     home = Path(tempfile.mkdtemp(prefix="excerptor-snap-"))
     atexit.register(shutil.rmtree, home, True)
     folder = demo_copy(home)
+    if abstaining:
+        from dataclasses import replace
+
+        from engine.workspace import Workspace
+        from tests.fakes import FAKE_CALIBRATION, FakeReader
+
+        strict = replace(FAKE_CALIBRATION, null_margin_threshold=-100.0)
+        return build_app(folder, export_dir=home, workspace=Workspace(folder, reader=FakeReader(), calibration=strict))
     if swept:
         from engine.checklist import load_checklist
         from engine.sweep import run_sweep
