@@ -17,7 +17,7 @@ from engine.sweep import SweepProgress, SweepReport, run_sweep
 
 EXPORT_FORMATS = {".csv": "csv", ".xlsx": "xlsx", ".md": "md"}
 CELL_KEYS = ("doc", "label", "question", "answer", "score", "low_confidence", "page", "locator", "start", "end",
-             "abstained")
+             "abstained", "below_threshold")
 
 
 def add_sweep_parser(sub) -> None:
@@ -62,7 +62,8 @@ def cell_json(cell) -> dict:
     return {"doc": cell.doc_path, "label": cell.label, "question": cell.question, "answer": cell.answer,
             "score": None if cell.score is None else round(float(cell.score), 6),
             "low_confidence": cell.low_confidence, "page": cell.page, "locator": cell.locator,
-            "start": cell.start, "end": cell.end, "abstained": cell.abstained}
+            "start": cell.start, "end": cell.end, "abstained": cell.abstained,
+            "below_threshold": cell.below_threshold}
 
 
 def print_summary(report: SweepReport, checklist: Checklist, cells: list) -> None:
@@ -77,10 +78,12 @@ def print_summary(report: SweepReport, checklist: Checklist, cells: list) -> Non
         if cell.doc_path != current:
             current = cell.doc_path
             print(f"\n{current}")
-        if cell.abstained or cell.answer is None:
+        if cell.answer is None:
             print(f"  {cell.label}: (no answer found)")
             continue
-        flag = "  [LOW CONFIDENCE]" if cell.low_confidence else ""
+        if cell.below_threshold:
+            print(f"  {cell.label}: (no answer found; closest span below the answer threshold follows)")
+        flag = "  [BELOW THRESHOLD]" if cell.below_threshold else ("  [LOW CONFIDENCE]" if cell.low_confidence else "")
         print(f"  {cell.label}: {quoted_span(cell.answer)}  confidence {cell.score:.2f}{flag}  "
               f"({cell.locator}, characters {cell.start}-{cell.end})")
 

@@ -76,6 +76,11 @@ class SweepCell:
     decided_at: str | None
     swept_at: str
 
+    @property
+    def below_threshold(self) -> bool:
+        """The cell abstained, and ``answer`` is the closest span the reader found, not an answer."""
+        return self.abstained and self.answer is not None
+
 
 def question_hash(question: str) -> str:
     """sha256 hex digest of the question text (UTF-8), exactly as given."""

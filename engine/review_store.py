@@ -214,12 +214,16 @@ class ReviewStore:
     # -- checklist sweep cells -------------------------------------------------------------------------
     def upsert_cell(self, checklist: str, doc_path: str, doc_sha256: str, label: str, question: str,
                     answer: Answer | None, abstained: bool) -> SweepCell:
-        """Insert or refresh one cell (one transaction). See the module docstring for when decisions are kept."""
+        """Insert or refresh one cell (one transaction). See the module docstring for when decisions are kept.
+
+        With ``abstained``, ``answer`` is the closest span below the threshold, or None where the reader found none.
+        """
         for name, value in (("checklist", checklist), ("doc_path", doc_path), ("doc_sha256", doc_sha256),
                             ("label", label), ("question", question)):
             require_text(name, value)
-        if answer is not None and abstained:
-            raise ValueError(f"an abstained cell has no answer (got answer {answer.text!r} with abstained=True)")
+        if answer is not None and abstained and not answer.low_confidence:
+            raise ValueError(f"the closest span of an abstained cell is low confidence (got {answer.text!r} "
+                             f"at {answer.score:.2f} not marked low)")
         if answer is not None and answer.citation.file != doc_path:
             raise ValueError(f"the answer must cite {doc_path!r} (got {answer.citation.file!r})")
         qhash = question_hash(question)

@@ -7,7 +7,8 @@ A cell (document d, item q):
    always reads something;
 2. reading: the (question, passage) pairs of many cells go to the reader in ONE ``read_pairs`` call (a batch of
    about ``batch_pairs`` pairs, crossing document boundaries), then the readings are split back per cell;
-3. ranking: ``rank_answers(..., top_n=1)``; the cell keeps the best answer, or records an abstention.
+3. ranking: ``rank_answers(..., top_n=1)``; the cell keeps the best answer, or records an abstention together with
+   the closest span below the threshold (``AskResult.shown``), so a reviewer still sees where to look.
 
 Resumable: a cell is skipped when the store's ``done_keys`` entry for (d, q.label) equals (d's sha256,
 sha256(question)). Cells are written right after their batch is read, so a killed sweep loses at most the batch
@@ -143,11 +144,11 @@ def run_sweep(
                 n = len(cell.passages)
                 result = rank_answers(cell.item.question, cell.passages, readings[at: at + n], calibration, top_n=1)
                 at += n
-                answer = result.answers[0] if result.answers else None
+                answer = result.shown[0] if result.shown else None
                 store.upsert_cell(checklist.name, cell.doc_path, cell.doc_sha256, cell.item.label,
-                                  cell.item.question, answer, answer is None)
+                                  cell.item.question, answer, result.abstained)
                 swept += 1
-                abstained += answer is None
+                abstained += result.abstained
             report(batch[-1].doc_path)
 
         report(docs[0][0] if docs else "")

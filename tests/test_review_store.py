@@ -221,8 +221,11 @@ def test_cell_round_trip_and_abstained(tmp_path):
         empty = store.upsert_cell("leases", DOC, "sha-1", "Roof", "Who repairs the roof?", None, True)
         assert (empty.answer, empty.score, empty.start, empty.abstained) == (None, None, None, True)
         assert store.cell(cell.cell_id) == cell
-        with pytest.raises(ValueError, match="abstained"):
+        with pytest.raises(ValueError, match="abstained"):  # a confident span is not a closest span
             store.upsert_cell("leases", DOC, "sha-1", "Rent", Q, answer, True)
+        closest = store.upsert_cell("leases", DOC, "sha-1", "Rent", Q, _answer(file=DOC, low=True), True)
+        assert closest.abstained and closest.below_threshold and closest.answer == "thirty (30) days"
+        assert not cell.below_threshold and not empty.below_threshold
         with pytest.raises(ValueError, match="must cite"):
             store.upsert_cell("leases", "other.txt", "sha-1", "Rent", Q, answer, False)
         with pytest.raises(ValueError, match="label"):

@@ -21,7 +21,7 @@ import pytest
 
 from engine.checklist import load_checklist
 from engine.cli_sweep import CELL_KEYS, add_sweep_parser, format_seconds, progress_line
-from engine.indexer import refresh_index
+from engine.indexer import open_index, refresh_index
 from engine.review_store import ReviewStore
 from engine.sweep import SweepProgress, run_sweep
 from engine.training.synth_contracts import generate_windows
@@ -83,8 +83,6 @@ def stored(folder: Path, name: str = "mini"):
 
 
 def passage_counts(folder: Path) -> dict[str, int]:
-    from engine.indexer import open_index
-
     with open_index(folder) as index:
         return {d: len(index.scope_positions(doc=d)) for d in index.doc_names}
 
@@ -107,8 +105,6 @@ def test_sweep_fills_every_cell_reading_inside_each_document(folder):
     assert ("Which law governs the agreement?", tiny_text) in read
     # the passages scoring above 0 come first, exactly as the ask pipeline's scoped search ranks them
     # (LoadedIndex.search, BM25 Okapi as rank-bm25 0.2.2 scores it)
-    from engine.indexer import open_index
-
     at = 0
     with open_index(folder) as index:
         for doc in sorted(counts):
@@ -122,7 +118,7 @@ def test_sweep_fills_every_cell_reading_inside_each_document(folder):
     with open_index(folder) as index:
         pages = {d: index.store.get_pages(d) for d in counts}
     for cell in cells:
-        assert (cell.answer is None) == cell.abstained
+        assert cell.answer is not None or cell.abstained  # no span at all only where the cell abstained
         if cell.answer is not None:
             page = next(p for p in pages[cell.doc_path] if p.locator == cell.locator and p.number == cell.page)
             assert page.text[cell.start:cell.end] == cell.answer
@@ -291,7 +287,8 @@ def test_cli_json(folder, fake_default_reader, capsys):
     assert obj["checklist"] == "mini" and obj["cells_swept"] == 9 and len(obj["cells"]) == 9
     for cell in obj["cells"]:
         assert tuple(cell) == CELL_KEYS
-        assert (cell["answer"] is None) == cell["abstained"]
+        assert cell["answer"] is not None or cell["abstained"]
+        assert cell["below_threshold"] == (cell["abstained"] and cell["answer"] is not None)
         assert cell["score"] is None or 0.0 <= cell["score"] <= 1.0
     assert run_cli(["sweep", str(folder), "--checklist", str(folder.parent / "mini.checklist")]) == 0
     out = capsys.readouterr().out
@@ -332,3 +329,26 @@ def test_bench_runs_end_to_end_with_the_fake_reader(capsys):
     # 2 documents x 2 questions per column (bench spec, no outside source)
     assert [r["cells"] for r in obj["rows"]] == [4, 4] and obj["ratio_cells_per_s"] > 0
     assert all(math.isfinite(r["windows_per_s"]) and r["windows"] > 0 for r in obj["rows"])
+
+
+def test_an_abstaining_cell_keeps_its_closest_span_below_the_threshold(folder):
+    # A calibration that abstains unless the best span beats null by 100: every cell abstains, and a cell whose
+    # document gave the reader any span keeps the best one, marked below the threshold and low confidence, as an
+    # exact span of its page text (engine/types.py invariant, no outside source).
+    from dataclasses import replace
+
+    strict = replace(FAKE_CALIBRATION, null_margin_threshold=-100.0)
+    refresh_index(folder)
+    workspace = Workspace(folder, reader=FakeReader(), calibration=strict)
+    try:
+        report = run_sweep(workspace, checklist_of(folder))
+        cells = stored(folder)
+        assert report.abstained == len(cells) == 9 and all(c.abstained for c in cells)
+        kept = [c for c in cells if c.answer is not None]
+        assert kept and all(c.below_threshold and c.low_confidence for c in kept)
+        with open_index(folder) as index:
+            for cell in kept:
+                page = next(p for p in index.store.get_pages(cell.doc_path) if p.locator == cell.locator)
+                assert page.text[cell.start:cell.end] == cell.answer
+    finally:
+        workspace.close()

@@ -34,15 +34,18 @@ STORE_ERRORS = (ValueError, sqlite3.Error, OSError)
 
 
 def cell_text(cell, width: int = CELL_WIDTH) -> Text:
-    """Glyph + short answer in its band colour; '·' not swept yet; '—' no answer found."""
+    """Glyph + short answer in its band colour; '·' not swept yet; '—' no answer found; the closest span of an
+    abstained cell in the below-threshold style."""
     if cell is None:
         return Text("·", style=palette.MUTED, end="")
     glyph = palette.DECISION_GLYPH.get(cell.decision or "", " ")
     out = Text(glyph + " ", style=palette.DECISION_STYLE.get(cell.decision or "", ""), end="")
     if cell.decision == "corrected" and cell.corrected_text:
         words, style = cell.corrected_text, "bold " + palette.BAND_FG["fair"]
-    elif cell.abstained or cell.answer is None:
+    elif cell.answer is None:
         words, style = "— no answer", palette.BAND_FG["none"]
+    elif cell.below_threshold:
+        words, style = cell.answer, palette.BELOW_THRESHOLD
     else:
         words, style = cell.answer, palette.BAND_FG[palette.band(cell.score, cell.low_confidence)]
     words = " ".join(words.split())
@@ -340,9 +343,12 @@ class GridScreen(Screen[None]):
         text = Text(cell.label + ": ", style="bold", end="")
         text.append(cell.question)
         text.append("\n")
-        if cell.abstained or cell.answer is None:
+        if cell.answer is None:
             text.append("No answer found in this document.", "italic")
         else:
+            if cell.below_threshold:
+                text.append("No answer found in this document. Closest span, below the answer threshold (the reader "
+                            "doubts it; read the source):\n", palette.BELOW_THRESHOLD)
             text.append_text(cell_text(cell, 60))
             text.append(f"  {round((cell.score or 0) * 100)}%", palette.MUTED)
             if cell.low_confidence:

@@ -55,8 +55,9 @@ def span_of_answer(a) -> SourceSpan:
 
 
 def span_of_cell(c) -> SourceSpan | None:
-    """From a review_store.SweepCell (None when the cell abstained or has no citation)."""
-    if c.abstained or c.answer is None or c.start is None or c.passage is None or c.passage_start is None:
+    """From a review_store.SweepCell (None when the cell has no span: nothing found, or no citation). The closest
+    span of an abstained cell is shown like an answer; the grid says it is below the threshold."""
+    if c.answer is None or c.start is None or c.passage is None or c.passage_start is None:
         return None
     return SourceSpan(c.doc_path, c.page, c.locator or "", c.start, c.end, c.passage, c.passage_start, c.answer)
 

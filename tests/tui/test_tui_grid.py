@@ -175,3 +175,34 @@ async def test_sweep_progress_pause_and_resume(tmp_path):
         second = grid.last_report
         assert not second.stopped and second.cells_skipped == first.cells_swept
         assert second.cells_skipped + second.cells_swept == total == len(grid.cells)
+
+
+@run_async
+async def test_an_abstaining_cell_shows_its_closest_span_marked_below_the_threshold(tmp_path):
+    from dataclasses import replace
+
+    from tui.grid_screen import cell_text
+
+    folder = demo_copy(tmp_path)
+    checklist_file = tmp_path / "small.checklist"
+    checklist_file.write_text(SMALL, encoding="utf-8")
+    strict = replace(FAKE_CALIBRATION, null_margin_threshold=-100.0)  # every cell abstains
+    workspace = Workspace(folder, reader=FakeReader(), calibration=strict)
+    async with running_app(folder, checklist=checklist_file, workspace=workspace) as (app, pilot):
+        grid = await _sweep(pilot)
+        target = next(c for c in grid.cells.values() if c.below_threshold)
+        assert target.abstained and target.low_confidence
+        # Oracle: the store holds the same cell.
+        with ReviewStore(folder) as store:
+            assert store.cell(target.cell_id) == target
+        shown = cell_text(target, 60)
+        assert target.answer[:10] in shown.plain
+        assert any(palette.BELOW_THRESHOLD in str(span.style) for span in shown.spans)
+        table = grid.query_one(DataTable)
+        table.focus()
+        table.move_cursor(row=table.get_row_index(target.doc_path), column=table.get_column_index(target.label))
+        await pilot.pause()
+        head = str(grid.query_one("#cell-head").render())
+        assert "below the answer threshold" in head
+        assert text_under(grid.query_one(SourcePreview).passage_text, palette.SPAN) == [
+            target.passage[target.start - target.passage_start: target.end - target.passage_start]]
