@@ -6,7 +6,10 @@ On calibrate's dev mix (``calibrate.dev_mix``, seed 7: TyDi-en dev, its topic-ne
 negatives, and CUAD-dev slices), with no threshold applied, prints:
 - the reader's own 4-point budget threshold (``calibrate.budget_threshold``): HasAns F1 there and with no threshold,
   and the share of dev negatives abstained, overall and by kind;
-- the best dev-mix v2.0 F1 over all thresholds (``calibrate.best_threshold``).
+- the best dev-mix v2.0 F1 over all thresholds (``calibrate.best_threshold``);
+- the share of retrieval-matched CUAD-dev negatives abstained at that same threshold: for 400 random CUAD-dev
+  questions (seed 7), the best BM25 slice of the contract that holds no answer (``training.retrieved_negatives``),
+  the kind of passage the app reads when a clause is absent. They are not part of the mix the threshold is fit on.
 These are the numbers the candidate rules in docs/decision_rules.md compare. Nothing from ``test/`` is read.
 """
 
@@ -21,11 +24,15 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
+from engine.calibration import abstains  # noqa: E402
 from engine.evaluation import predict_examples  # noqa: E402
+from engine.squad_data import load_examples  # noqa: E402
 from engine.reader.transformer_reader import TransformerReader  # noqa: E402
 from engine.training.calibrate import abstention_by_kind, best_threshold, budget_threshold, dev_mix  # noqa: E402
+from engine.training.retrieved_negatives import retrieved_negatives  # noqa: E402
 
 DATA = ROOT.parent / "shared" / "data" / "qa"
+RETRIEVED_SAMPLE = 400  # CUAD-dev questions; a sample size with no source, large enough for about +-2.5 points
 
 
 def main() -> int:
@@ -40,9 +47,14 @@ def main() -> int:
     budget = budget_threshold(predictions, mix)
     budget["no_ans_abstained_by_kind"] = abstention_by_kind(predictions, mix, budget["threshold"])
     best_t, best_v2 = best_threshold(predictions, mix)
+    cuad = load_examples(DATA / "dev/cuad_dev.json.gz")
+    retrieved = retrieved_negatives(random.Random(args.seed).sample(cuad, RETRIEVED_SAMPLE))
+    held_out = predict_examples(reader, retrieved, threshold=None)
+    caught = sum(abstains(held_out[e.qid].null_margin, budget["threshold"]) for e in retrieved)
     print(json.dumps({"model": str(args.model), "quantize": args.quantize, "dev_mix_size": len(mix),
-                      "budget": budget, "best_v2_f1": round(best_v2, 2), "best_v2_threshold": round(best_t, 3)},
-                     indent=1))
+                      "budget": budget, "best_v2_f1": round(best_v2, 2), "best_v2_threshold": round(best_t, 3),
+                      "cuad_retrieved_negatives": len(retrieved),
+                      "cuad_retrieved_abstained": round(100.0 * caught / max(1, len(retrieved)), 2)}, indent=1))
     return 0
 
 

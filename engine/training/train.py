@@ -33,6 +33,9 @@ class TrainConfig:
     # Copies of each CUAD title/parties/date question asked as a plain question over its own slice
     # (engine.training.short_contract_questions; each copy draws its own slice); 0 = none.
     cuad_plain_question_copies: int = 0
+    # CUAD questions (a random sample, answerable or not) that each add their best BM25 slice holding no answer as
+    # an unanswerable pair (engine.training.retrieved_negatives); 0 = none.
+    cuad_retrieved_negatives: int = 0
     long_negatives_per_example: float = 0.3
     synthetic_windows: int = 12000
     same_title_negative_rate: float = 0.0  # share of general questions also paired with another paragraph
@@ -97,6 +100,7 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
     from engine.training.label_choice import with_consensus_first
     from engine.training.removal_negatives import removed_sentence_negatives
     from engine.training.rewrite_negatives import rewritten_negatives
+    from engine.training.retrieved_negatives import retrieved_negatives
     from engine.training.short_contract_questions import short_contract_questions
     from engine.training.swap_negatives import swapped_entity_negatives
 
@@ -120,7 +124,11 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
                      for q in short_contract_questions(positives, rng)]
             if plain:
                 counts[entry + " plain short-answer questions"] = len(plain)
-            items = sliced + neg + plain
+            retrieved = []
+            if config.cuad_retrieved_negatives:  # drawn last, so runs without it keep their random draws
+                retrieved = retrieved_negatives(rng.sample(items, min(len(items), config.cuad_retrieved_negatives)))
+                counts[entry + " retrieved negatives"] = len(retrieved)
+            items = sliced + neg + plain + retrieved
         else:
             if config.consensus_labels:
                 relabelled = [with_consensus_first(e) for e in items]
