@@ -67,7 +67,8 @@ def rank_answers(
     candidates.sort(key=lambda c: -c[0])  # stable: ties keep BM25 order, then the reader's order (its answer first)
     best_margin = max(c[1] for c in candidates)
     if abstains(-best_margin, calibration.null_margin_threshold):
-        closest = merged_answers(candidates, top_n_below_threshold, calibration, low_confidence_below=1.0)
+        # every closest span is low confidence, whatever its score: no confidence is below infinity
+        closest = merged_answers(candidates, top_n_below_threshold, calibration, low_confidence_below=float("inf"))
         return AskResult(question, (), True, below_threshold=closest)
     return AskResult(question, merged_answers(candidates, top_n, calibration, low_confidence_below), False)
 
