@@ -19,6 +19,7 @@ from textual.widgets import Input, ProgressBar, Static
 from tui import palette
 from tui.answer_list import BELOW_THRESHOLD_TAG, NO_ANSWER, AnswerList
 from tui.desk_screen import BELOW_THRESHOLD_HEADING, READER_LOADING, READER_READY
+from tui.history_screen import HistoryScreen
 from tui.index_meter import IndexMeter
 from tui.problems_screen import ProblemsScreen
 from tui.source_preview import SourcePreview
@@ -174,6 +175,13 @@ async def test_an_abstention_shows_the_closest_spans_marked_below_the_threshold(
         assert stored.decision == "accepted" and stored.below_threshold
         entry = app.store.history()[0]
         assert entry.abstained and entry.n_answers == len(direct.below_threshold)
+        # History says the same: no answer, n spans below the threshold, listed under their own heading.
+        await pilot.press("escape", "h")
+        await pilot.pause()
+        assert isinstance(app.screen, HistoryScreen)
+        assert f"no answer · {entry.n_answers} below threshold" in app.screen._prompt(entry).plain
+        detail = str(app.screen.query_one("#history-detail", Static).render())
+        assert "did not seem to answer" in detail and "Closest spans, below the answer threshold" in detail
 
 
 @run_async
