@@ -101,10 +101,19 @@ def test_training_mix_adds_plain_question_copies_of_cuad_train(tmp_path):
         json.dump(raw, handle)
     config = TrainConfig(data_dir=str(tmp_path), train_files=("train/cuad_train.json.gz",), synthetic_windows=0,
                          cuad_plain_question_copies=2)
-    examples, counts = assemble_examples(config, random.Random(0))
+    examples, counts, weights = assemble_examples(config, random.Random(0))
     plain = [e for e in examples if e.question == SHORT_ANSWER_QUESTIONS["Agreement Date"]]
     assert len(plain) == 2 and counts["train/cuad_train.json.gz plain short-answer questions"] == 2
     assert all(e.answers[0].text == "March 4, 2025" for e in plain)
-    without, _ = assemble_examples(TrainConfig(data_dir=str(tmp_path), train_files=("train/cuad_train.json.gz",),
+    assert weights == [1.0] * len(examples)  # no loss weights asked for
+    without, _, _ = assemble_examples(TrainConfig(data_dir=str(tmp_path), train_files=("train/cuad_train.json.gz",),
                                                synthetic_windows=0), random.Random(0))
     assert not any(e.question in SHORT_ANSWER_QUESTIONS.values() for e in without)
+    # Contract negatives take their own loss weight: here the retrieved slices (qid suffix #r), not the answers.
+    weighted, counts, weights = assemble_examples(
+        TrainConfig(data_dir=str(tmp_path), train_files=("train/cuad_train.json.gz",), synthetic_windows=0,
+                    cuad_retrieved_negatives=2, contract_negative_loss_weight=0.5), random.Random(0))
+    retrieved = [w for e, w in zip(weighted, weights) if "#r" in e.qid]
+    assert len(retrieved) == counts["train/cuad_train.json.gz retrieved negatives"] >= 1
+    assert set(retrieved) == {0.5}
+    assert all(w == 1.0 for e, w in zip(weighted, weights) if not e.is_impossible)

@@ -26,6 +26,7 @@ class TrainWindow:
     token_type_ids: tuple[int, ...]
     start_position: int
     end_position: int
+    loss_weight: float = 1.0  # weight of this window in engine.training.loss.weighted_span_loss
 
 
 def slice_long_example(
@@ -114,8 +115,15 @@ def build_train_windows(
     stride: int = defaults.DOC_STRIDE,
     max_query_length: int = defaults.MAX_QUERY_LENGTH,
     chunk: int = 1000,
+    loss_weights: Sequence[float] | None = None,
 ) -> list[TrainWindow]:
-    """Tokenise with overflow and label each window (answer tokens, or [CLS] = 0)."""
+    """Tokenise with overflow and label each window (answer tokens, or [CLS] = 0).
+
+    ``loss_weights`` holds one weight per example (default 1.0), copied to every window of that example.
+    """
+    if loss_weights is not None and len(loss_weights) != len(examples):
+        raise ValueError(f"loss_weights must hold one weight per example (got {len(loss_weights)} for "
+                         f"{len(examples)} examples)")
     windows: list[TrainWindow] = []
     for lo in range(0, len(examples), chunk):
         part = examples[lo: lo + chunk]
@@ -138,5 +146,6 @@ def build_train_windows(
                     if end_pos < start_pos:
                         start_pos = end_pos = 0
             types = enc["token_type_ids"][w] if "token_type_ids" in enc else [0] * len(seq_ids)
-            windows.append(TrainWindow(tuple(enc["input_ids"][w]), tuple(types), start_pos, end_pos))
+            weight = 1.0 if loss_weights is None else float(loss_weights[lo + sample])
+            windows.append(TrainWindow(tuple(enc["input_ids"][w]), tuple(types), start_pos, end_pos, weight))
     return windows

@@ -1,7 +1,8 @@
 """Fine-tune a span reader from the packaged MiniLM encoder on CPU, with resumable checkpoints.
 
 Optimiser: AdamW with linear warm-up then linear decay to 0, gradient clipping, bf16 autocast on CPUs with native bf16.
-Loss: the mean of the cross-entropy of the start and end positions (Devlin et al., 2019).
+Loss: the mean of the cross-entropy of the start and end positions (Devlin et al., 2019), optionally weighted per
+window by the kind of pair it came from (engine.training.loss).
 Checkpoints hold only safetensors and JSON: the model, the optimiser moments, and the step.
 """
 
@@ -11,7 +12,9 @@ import json
 import math
 import os
 import random
+import re
 import time
+import warnings
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
@@ -43,6 +46,9 @@ class TrainConfig:
     rewrite_negative_rate: float = 0.0  # share of general questions also given a negated or antonym unanswerable twin
     removal_negative_rate: float = 0.0  # share of general questions also paired with their paragraph minus the answer
     consensus_labels: bool = False  # label with the medoid of several gold answers instead of the first
+    # Loss weight of each window of a negative pair (engine.training.loss); answer windows keep 1.0.
+    general_negative_loss_weight: float = 1.0  # same-title, swapped, rewritten and removal negatives (non-CUAD files)
+    contract_negative_loss_weight: float = 1.0  # CUAD negative slices and retrieved negatives
     seed: int = 13
     max_length: int = 256
     stride: int = 96
@@ -94,7 +100,10 @@ def base_encoder_dir(config: TrainConfig) -> Path:
 
 
 def assemble_examples(config: TrainConfig, rng: random.Random):
-    """The training mix: general QA, CUAD slices and synthetic contract questions. Returns (examples, counts)."""
+    """The training mix: general QA, CUAD slices and synthetic contract questions.
+
+    Returns (examples, counts, loss_weights), with one loss weight per example (see TrainConfig).
+    """
     from engine.squad_data import iter_examples, load_examples, read_squad_json
     from engine.training.features import expand_examples, same_title_negatives
     from engine.training.label_choice import with_consensus_first
@@ -104,8 +113,12 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
     from engine.training.short_contract_questions import short_contract_questions
     from engine.training.swap_negatives import swapped_entity_negatives
 
+    for name in ("general_negative_loss_weight", "contract_negative_loss_weight"):
+        if getattr(config, name) < 0:
+            raise ValueError(f"{name} must be non-negative (got {getattr(config, name)})")
     counts: dict[str, int] = {}
     examples = []
+    loss_weights: list[float] = []
     for entry in config.train_files:
         name, _, cap = entry.partition(":")  # "file:N" keeps a random N questions of that file
         items = load_examples(Path(config.data_dir) / name)
@@ -129,6 +142,9 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
                 retrieved = retrieved_negatives(rng.sample(items, min(len(items), config.cuad_retrieved_negatives)))
                 counts[entry + " retrieved negatives"] = len(retrieved)
             items = sliced + neg + plain + retrieved
+            contract_weight = config.contract_negative_loss_weight
+            weights = ([1.0] * len(sliced) + [contract_weight] * len(neg) + [1.0] * len(plain)
+                       + [contract_weight] * len(retrieved))
         else:
             if config.consensus_labels:
                 relabelled = [with_consensus_first(e) for e in items]
@@ -139,6 +155,8 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
             rewritten = rewritten_negatives(items, rng, config.rewrite_negative_rate)
             removed = removed_sentence_negatives(items, rng, config.removal_negative_rate)
             items = expand_examples(items, rng, config.long_negatives_per_example)
+            weights = [1.0] * len(items) + [config.general_negative_loss_weight] * (
+                len(negatives) + len(swapped) + len(rewritten) + len(removed))
             if negatives:
                 counts[entry + " same-title negatives"] = len(negatives)
                 items += negatives
@@ -153,13 +171,15 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
                 items += removed
         counts[entry] = len(items)
         examples.extend(items)
+        loss_weights.extend(weights)
     if config.synthetic_windows:
         from engine.training.synth_contracts import generate_squad
 
         synthetic = list(iter_examples(generate_squad(config.synthetic_windows, seed=config.seed)))
         counts["synthetic_contracts"] = len(synthetic)
         examples.extend(synthetic)
-    return examples, counts
+        loss_weights.extend([1.0] * len(synthetic))
+    return examples, counts, loss_weights
 
 
 def length_grouped_batches(windows: list[TrainWindow], batch_size: int, rng: random.Random) -> list[list[int]]:
@@ -190,8 +210,9 @@ def collate(windows: list[TrainWindow], idx: list[int]):
         attn[row, :n] = 1
     starts = torch.tensor([windows[i].start_position for i in idx])
     ends = torch.tensor([windows[i].end_position for i in idx])
+    weights = torch.tensor([windows[i].loss_weight for i in idx], dtype=torch.float32)
     return {"input_ids": ids, "token_type_ids": types, "attention_mask": attn,
-            "start_positions": starts, "end_positions": ends}
+            "start_positions": starts, "end_positions": ends, "loss_weights": weights}
 
 
 def save_checkpoint(model, optimizer, step: int, path: Path) -> None:
@@ -240,6 +261,7 @@ def train(config: TrainConfig) -> Path:
     from transformers import AutoModelForQuestionAnswering, AutoTokenizer
 
     from engine.training.features import build_train_windows
+    from engine.training.loss import weighted_span_loss
 
     bf16 = use_bf16(config.bf16)  # a bad setting fails here, before data preparation
     out_dir = Path(config.out_dir)
@@ -252,8 +274,9 @@ def train(config: TrainConfig) -> Path:
     tokenizer = AutoTokenizer.from_pretrained(base_encoder_dir(config), local_files_only=True)
     log(out_dir, f"config {json.dumps(asdict(config))}")
     t0 = time.time()
-    examples, counts = assemble_examples(config, rng)
-    windows = build_train_windows(tokenizer, examples, max_length=config.max_length, stride=config.stride)
+    examples, counts, loss_weights = assemble_examples(config, rng)
+    windows = build_train_windows(tokenizer, examples, max_length=config.max_length, stride=config.stride,
+                                  loss_weights=loss_weights)
     n_pos = sum(1 for w in windows if w.start_position > 0)
     log(out_dir, f"data {json.dumps(counts)} examples={len(examples)} windows={len(windows)} "
                  f"answer_windows={n_pos} null_windows={len(windows) - n_pos} prep={time.time() - t0:.0f}s")
@@ -274,15 +297,20 @@ def train(config: TrainConfig) -> Path:
     step = 0
     if checkpoint.exists():
         step = load_optimizer_state(optimizer, checkpoint)
-        for _ in range(step):
-            scheduler.step()
+        with warnings.catch_warnings():  # fast-forwarding the schedule is meant to run before optimizer.step()
+            warnings.filterwarnings("ignore", message=re.escape("Detected call of `lr_scheduler.step()`"))
+            for _ in range(step):
+                scheduler.step()
         log(out_dir, f"resumed at step {step}")
     log(out_dir, f"training {total} steps of batch {config.batch_size}, warmup {warmup}, bf16 autocast {bf16}")
     started, running, seen = time.time(), 0.0, 0
     while step < total:
         batch = collate(windows, batches[step])
         with torch.autocast("cpu", dtype=torch.bfloat16, enabled=bf16):
-            loss = model(**batch).loss
+            out = model(input_ids=batch["input_ids"], token_type_ids=batch["token_type_ids"],
+                        attention_mask=batch["attention_mask"])
+        loss = weighted_span_loss(out.start_logits, out.end_logits, batch["start_positions"],
+                                  batch["end_positions"], batch["loss_weights"])
         loss.backward()
         torch.nn.utils.clip_grad_norm_(model.parameters(), config.clip_norm)
         optimizer.step()
