@@ -12,7 +12,6 @@ import json
 import math
 import os
 import random
-import re
 import time
 import warnings
 from dataclasses import asdict, dataclass, field
@@ -298,7 +297,7 @@ def train(config: TrainConfig) -> Path:
     if checkpoint.exists():
         step = load_optimizer_state(optimizer, checkpoint)
         with warnings.catch_warnings():  # fast-forwarding the schedule is meant to run before optimizer.step()
-            warnings.filterwarnings("ignore", message=re.escape("Detected call of `lr_scheduler.step()`"))
+            warnings.filterwarnings("ignore", message="Detected call of `lr_scheduler.step")
             for _ in range(step):
                 scheduler.step()
         log(out_dir, f"resumed at step {step}")
