@@ -3,6 +3,8 @@
 import math
 import re
 
+import pytest
+
 from engine.training.train import TrainConfig, train
 from tests.training_files import write_general_file
 
@@ -21,3 +23,17 @@ def test_training_steps_write_a_reader_and_resume(tmp_path):
     train(TrainConfig(**config))
     log = (tmp_path / "run" / "train.log").read_text(encoding="utf-8")
     assert "resumed at step 2" in log and re.search(r"step 3/3 loss [0-9.]+", log)
+
+
+def test_a_missing_init_dir_fails_with_its_name_before_anything_is_written(tmp_path, capsys):
+    from engine.cli import main
+
+    missing = tmp_path / "no-such-reader"
+    with pytest.raises(FileNotFoundError, match="no-such-reader"):
+        train(TrainConfig(data_dir=str(tmp_path), out_dir=str(tmp_path / "run"), init_dir=str(missing)))
+    assert not (tmp_path / "run").exists()
+    # The command says so in one line instead of a library traceback about an online lookup.
+    assert main(["train-reader", "--out-dir", str(tmp_path / "run2"), "--init-dir", str(missing)]) == 2
+    err = capsys.readouterr().err
+    assert "--init-dir" in err and str(missing) in err and "Traceback" not in err
+    assert not (tmp_path / "run2").exists()

