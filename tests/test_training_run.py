@@ -37,3 +37,13 @@ def test_a_missing_init_dir_fails_with_its_name_before_anything_is_written(tmp_p
     err = capsys.readouterr().err
     assert "--init-dir" in err and str(missing) in err and "Traceback" not in err
     assert not (tmp_path / "run2").exists()
+
+
+def test_calibrate_reader_names_a_missing_trained_folder_and_writes_nothing(tmp_path, capsys):
+    from engine.cli import main
+
+    missing, target = tmp_path / "no-such-run", tmp_path / "reader-out"
+    assert main(["calibrate-reader", str(missing), "--out", str(target)]) == 2
+    err = capsys.readouterr().err
+    assert str(missing) in err and "config.json" in err and "Traceback" not in err
+    assert not target.exists() and not target.with_name(target.name + ".tmp").exists()

@@ -21,6 +21,8 @@ def export_reader(trained_dir: Path, target_dir: Path, calibration: dict) -> Pat
     from transformers import AutoModelForQuestionAnswering, AutoTokenizer
 
     trained_dir, target_dir = Path(trained_dir), Path(target_dir)
+    if not (trained_dir / "config.json").is_file():  # else transformers tries an online lookup and says so
+        raise FileNotFoundError(f"the trained reader folder must hold config.json (got {trained_dir})")
     tmp = target_dir.with_name(target_dir.name + ".tmp")
     if tmp.exists():
         shutil.rmtree(tmp)
