@@ -11,6 +11,7 @@ from typing import Sequence
 import numpy as np
 
 from engine import defaults
+from engine.model_folder import require_model_folder
 from engine.reader.decode import decode_spans, token_span_to_chars
 from engine.reader.interface import Reading, ReadSpan
 from engine.reader.span_choice import choose_span
@@ -106,9 +107,7 @@ class TransformerReader:
 
         if batch_size < 1:
             raise ValueError(f"batch_size must be >= 1 (got {batch_size})")
-        self.model_dir = Path(model_dir) if model_dir else default_model_dir()
-        if not (self.model_dir / "config.json").exists():
-            raise ValueError(f"no reader model in {self.model_dir} (config.json missing)")
+        self.model_dir = require_model_folder(model_dir or default_model_dir(), "the reader folder")
         if threads:
             torch.set_num_threads(threads)
         self.quantize = quantize or read_default_quantize(self.model_dir)

