@@ -113,6 +113,31 @@ def test_average_readers_is_the_weighted_mean_of_each_tensor(tmp_path):
         average_readers(a, b, tmp_path / "bad")
 
 
+def test_uniform_soup_is_the_mean_of_k_readers(tmp_path):
+    """theta = (theta_1 + ... + theta_k) / k (Wortsman et al., 2022, uniform soup); values worked by hand."""
+    import torch
+    from safetensors.torch import load_file, save_file
+
+    from engine.training.average import uniform_soup
+
+    folders = []
+    for name, w in (("a", [1.0, 2.0]), ("b", [4.0, 2.0]), ("c", [1.0, 5.0])):
+        folder = tmp_path / name
+        folder.mkdir()
+        save_file({"w": torch.tensor(w, dtype=torch.float16)}, str(folder / "model.safetensors"))
+        (folder / "config.json").write_text("{}", encoding="utf-8")
+        folders.append(folder)
+    out = uniform_soup(folders, tmp_path / "soup")
+    # ([1, 2] + [4, 2] + [1, 5]) / 3 = [2, 3]
+    assert load_file(str(out / "model.safetensors"))["w"].tolist() == [2.0, 3.0]
+    assert (out / "config.json").exists()
+    with pytest.raises(ValueError, match=r"got 1"):
+        uniform_soup(folders[:1], tmp_path / "bad")
+    save_file({"w": torch.zeros(3)}, str(folders[2] / "model.safetensors"))
+    with pytest.raises(ValueError, match="differ"):
+        uniform_soup(folders, tmp_path / "bad")
+
+
 def test_removing_the_answer_sentence_leaves_an_unanswerable_paragraph():
     # Hand-made paragraph (invented): the answer sits in the second of four sentences.
     from engine.training.removal_negatives import removed_sentence_negatives, without_answer_sentences

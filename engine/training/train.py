@@ -59,7 +59,8 @@ class TrainConfig:
     epochs: float = 1.0
     max_steps: int = 0  # 0 = from epochs
     clip_norm: float = 1.0
-    bf16: str = "auto"  # "auto": bf16 autocast only where the CPU has native bf16 (see use_bf16); "true"; "false"
+    bf16: str = "auto"  # "auto": bf16 autocast only where the hardware has native bf16 (see use_bf16); "true"; "false"
+    device: str = "cpu"  # "cpu" (the product's only need), or "cuda" to train on a GPU where one happens to exist
     checkpoint_every: int = 200
     eval_every: int = 400
     log_every: int = 20
@@ -74,8 +75,21 @@ def log(out_dir: Path, message: str) -> None:
         handle.write(line + "\n")
 
 
-def use_bf16(setting: str, native: bool | None = None) -> bool:
-    """Whether to train under bf16 autocast. "auto" follows oneDNN's native-bf16 check (AVX-512 or AMX CPUs).
+def training_device(setting: str) -> str:
+    """The torch device to train on: "cpu", or "cuda" where torch sees a GPU. Running never needs one."""
+    if setting not in ("cpu", "cuda"):
+        raise ValueError(f"device must be 'cpu' or 'cuda' (got {setting!r})")
+    if setting == "cuda":
+        import torch
+
+        if not torch.cuda.is_available():
+            raise ValueError(f"device 'cuda' needs a CUDA build of torch and a visible GPU (got {setting!r})")
+    return setting
+
+
+def use_bf16(setting: str, native: bool | None = None, device: str = "cpu") -> bool:
+    """Whether to train under bf16 autocast. "auto" follows oneDNN's native-bf16 check (AVX-512 or AMX CPUs), or
+    the GPU's own bf16 support when training on "cuda".
 
     Measured here: on a CPU with native bf16 a step ran 1.8x faster than fp32; on an AVX2-only CPU (no native
     bf16) the emulated bf16 step was about 3x slower than fp32 (10 s against over 27 s for a batch of 32).
@@ -87,7 +101,10 @@ def use_bf16(setting: str, native: bool | None = None) -> bool:
     if native is None:
         import torch
 
-        native = bool(torch.ops.mkldnn._is_mkldnn_bf16_supported())
+        if device == "cuda":
+            native = bool(torch.cuda.is_bf16_supported())
+        else:
+            native = bool(torch.ops.mkldnn._is_mkldnn_bf16_supported())
     return native
 
 
@@ -226,8 +243,8 @@ def save_checkpoint(model, optimizer, step: int, path: Path) -> None:
     for k, p in enumerate(params):
         state = optimizer.state.get(p, {})
         if "exp_avg" in state:
-            tensors[f"{k}.exp_avg"] = state["exp_avg"].contiguous()
-            tensors[f"{k}.exp_avg_sq"] = state["exp_avg_sq"].contiguous()
+            tensors[f"{k}.exp_avg"] = state["exp_avg"].detach().cpu().contiguous()
+            tensors[f"{k}.exp_avg_sq"] = state["exp_avg_sq"].detach().cpu().contiguous()
             meta["param_steps"].append([k, float(state["step"])])
     save_file(tensors, str(tmp / "optimizer.safetensors"))
     (tmp / "trainer_state.json").write_text(json.dumps(meta), encoding="utf-8")
@@ -241,11 +258,11 @@ def save_checkpoint(model, optimizer, step: int, path: Path) -> None:
         shutil.rmtree(old)
 
 
-def load_optimizer_state(optimizer, path: Path) -> int:
+def load_optimizer_state(optimizer, path: Path, device: str = "cpu") -> int:
     import torch
     from safetensors.torch import load_file
 
-    tensors = load_file(str(path / "optimizer.safetensors"))
+    tensors = load_file(str(path / "optimizer.safetensors"), device=device)
     meta = json.loads((path / "trainer_state.json").read_text(encoding="utf-8"))
     params = [p for group in optimizer.param_groups for p in group["params"]]
     for k, step in meta["param_steps"]:
@@ -262,7 +279,8 @@ def train(config: TrainConfig) -> Path:
     from engine.training.features import build_train_windows
     from engine.training.loss import weighted_span_loss
 
-    bf16 = use_bf16(config.bf16)  # a bad setting fails here, before data preparation
+    device = training_device(config.device)  # a bad setting fails here, before data preparation
+    bf16 = use_bf16(config.bf16, device=device)
     base_dir = base_encoder_dir(config)  # so does a missing --init-dir, before the run folder is made
     out_dir = Path(config.out_dir)
     out_dir.mkdir(parents=True, exist_ok=True)
@@ -285,7 +303,7 @@ def train(config: TrainConfig) -> Path:
     while len(batches) < total:
         batches += length_grouped_batches(windows, config.batch_size, rng)
     model = AutoModelForQuestionAnswering.from_pretrained(init, local_files_only=True, use_safetensors=True)
-    model = model.float()  # committed readers are fp16; train (and keep AdamW moments) in fp32
+    model = model.float().to(device)  # committed readers are fp16; train (and keep AdamW moments) in fp32
     model.train()
     decay = [p for n, p in model.named_parameters() if not any(s in n for s in ("bias", "LayerNorm"))]
     no_decay = [p for n, p in model.named_parameters() if any(s in n for s in ("bias", "LayerNorm"))]
@@ -296,17 +314,18 @@ def train(config: TrainConfig) -> Path:
     scheduler = torch.optim.lr_scheduler.LambdaLR(optimizer, schedule)
     step = 0
     if checkpoint.exists():
-        step = load_optimizer_state(optimizer, checkpoint)
+        step = load_optimizer_state(optimizer, checkpoint, device)
         with warnings.catch_warnings():  # fast-forwarding the schedule is meant to run before optimizer.step()
             warnings.filterwarnings("ignore", message="Detected call of `lr_scheduler.step")
             for _ in range(step):
                 scheduler.step()
         log(out_dir, f"resumed at step {step}")
-    log(out_dir, f"training {total} steps of batch {config.batch_size}, warmup {warmup}, bf16 autocast {bf16}")
+    log(out_dir, f"training {total} steps of batch {config.batch_size}, warmup {warmup}, bf16 autocast {bf16}, "
+                 f"device {device}")
     started, running, seen = time.time(), 0.0, 0
     while step < total:
-        batch = collate(windows, batches[step])
-        with torch.autocast("cpu", dtype=torch.bfloat16, enabled=bf16):
+        batch = {k: v.to(device) for k, v in collate(windows, batches[step]).items()}
+        with torch.autocast(device, dtype=torch.bfloat16, enabled=bf16):
             out = model(input_ids=batch["input_ids"], token_type_ids=batch["token_type_ids"],
                         attention_mask=batch["attention_mask"])
         loss = weighted_span_loss(out.start_logits, out.end_logits, batch["start_positions"],
@@ -327,11 +346,11 @@ def train(config: TrainConfig) -> Path:
         if step % config.checkpoint_every == 0 or step == total:
             save_checkpoint(model, optimizer, step, checkpoint)
         if config.eval_every and (step % config.eval_every == 0 or step == total):
-            model.eval()
+            model.eval().to("cpu")  # the reader runs on CPU; the optimiser's moments stay where they are
             log(out_dir, f"eval step {step} {json.dumps(quick_dev_eval(model, tokenizer, config))}")
-            model.train()
+            model.to(device).train()
     final = out_dir / "final"
-    model.save_pretrained(final, safe_serialization=True)
+    model.to("cpu").save_pretrained(final, safe_serialization=True)
     tokenizer.save_pretrained(final)
     log(out_dir, f"done in {(time.time() - t0) / 60:.1f} min -> {final}")
     return final
