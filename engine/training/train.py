@@ -76,7 +76,10 @@ def log(out_dir: Path, message: str) -> None:
 
 
 def training_device(setting: str) -> str:
-    """The torch device to train on: "cpu", or "cuda" where torch sees a GPU. Running never needs one."""
+    """The torch device to train on: "cpu", or "cuda" where torch sees a GPU. Running never needs one.
+
+    Measured: a batch of 32 took 0.05 s on one NVIDIA H200 with three runs sharing it, against about 3 s on 2 AMX cores.
+    """
     if setting not in ("cpu", "cuda"):
         raise ValueError(f"device must be 'cpu' or 'cuda' (got {setting!r})")
     if setting == "cuda":
