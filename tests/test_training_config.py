@@ -24,9 +24,14 @@ def test_bad_setting_names_the_value():
         use_bf16("yes")
 
 
-def test_cli_default_is_auto():
+def train_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser()
     add_train_parser(parser.add_subparsers(dest="command"))
+    return parser
+
+
+def test_cli_default_is_auto():
+    parser = train_parser()
     assert parser.parse_args(["train-reader"]).bf16 == "auto"
     assert parser.parse_args(["train-reader", "--bf16", "false"]).bf16 == "false"
 
@@ -45,9 +50,7 @@ def test_training_device_is_cpu_or_a_visible_gpu():
 
 
 def test_cli_trains_on_cpu_unless_told():
-    parser = argparse.ArgumentParser()
-    add_train_parser(parser.add_subparsers(dest="command"))
-    assert parser.parse_args(["train-reader"]).device == "cpu"
+    assert train_parser().parse_args(["train-reader"]).device == "cpu"
 
 
 def test_seed_soup_sets_seed_and_folder_itself(tmp_path):
