@@ -23,7 +23,8 @@ def add_train_parser(sub) -> None:
         else:
             cast = {"int": int, "float": float, "str": str}.get(str(f.type), str)
             p.add_argument(flag, type=cast, default=f.default)
-    p.add_argument("--train-files", nargs="*", default=None, help="files under --data-dir (default: all train/)")
+    p.add_argument("--train-files", nargs="*", default=None,
+                   help="files under --data-dir (default: all train/); FILE:N keeps N random questions of FILE")
     p.set_defaults(handler=run_train)
 
 
