@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import json
 import math
+import os
 from dataclasses import asdict, dataclass
 from pathlib import Path
 
@@ -55,6 +56,16 @@ def load_calibration(model_dir: Path) -> Calibration:
 
 def calibration_dict(calibration: Calibration, **extra) -> dict:
     return {**asdict(calibration), **extra}
+
+
+def write_calibration_file(model_dir: Path, payload: dict) -> Path:
+    """Write ``CALIBRATION_FILE`` atomically (temporary file, then rename), so a reader folder never holds half of
+    one."""
+    target = Path(model_dir) / CALIBRATION_FILE
+    tmp = target.with_name(target.name + ".tmp")
+    tmp.write_text(json.dumps(payload, indent=2, sort_keys=True) + "\n", encoding="utf-8")
+    os.replace(tmp, target)
+    return target
 
 
 def fit_logistic(x: np.ndarray, y: np.ndarray, iterations: int = 50, l2: float = 1e-3) -> tuple[float, float]:

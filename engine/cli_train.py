@@ -77,23 +77,25 @@ def run_evaluate(args) -> int:
 def add_calibrate_parser(sub) -> None:
     p = sub.add_parser("calibrate-reader",
                        help="export a trained reader and tune its quantisation, threshold, fusion and confidence on dev/")
-    p.add_argument("trained", type=Path, help="the training run's final/ folder")
+    p.add_argument("trained", type=Path,
+                   help="the training run's final/ folder (or the --out folder itself, to recalibrate it in place)")
     p.add_argument("--out", type=Path, default=None, help="model folder to write (default: the committed reader's)")
     p.add_argument("--data-dir", type=Path, default=Path("../shared/data/qa"))
     p.set_defaults(handler=run_calibrate)
 
 
 def run_calibrate(args) -> int:
-    from engine.calibration import calibration_dict
+    from engine.calibration import calibration_dict, write_calibration_file
     from engine.reader.transformer_reader import default_model_dir
     from engine.training.calibrate import calibrate
     from engine.training.export import export_reader
 
     target = args.out or default_model_dir()
-    export_reader(args.trained, target, {})
+    if Path(target).resolve() != Path(args.trained).resolve():
+        export_reader(args.trained, target, {})  # else: recalibrate an exported reader in place
     report = calibrate(target, args.data_dir)
     payload = calibration_dict(report.pop("calibration"), **report)
-    (target / "excerptor.json").write_text(json.dumps(payload, indent=2, sort_keys=True) + "\n", encoding="utf-8")
+    write_calibration_file(target, payload)
     print(json.dumps(payload, indent=2, sort_keys=True))
     return 0
 
