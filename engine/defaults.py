@@ -12,9 +12,6 @@ N_BEST = 20  # candidate starts/ends considered per window (no source: common pr
 SPAN_CHOICE_CANDIDATES = 20
 SPAN_CHOICE_TEMPERATURE = 1.0
 READER_BATCH_SIZE = 16
-# Migration strength of activation smoothing before int8 (engine.reader.smoothing): 0.5 is the SmoothQuant paper's
-# default (Xiao et al., 2023; from memory), not tuned here.
-SMOOTHING_ALPHA = 0.5
 
 # Passages (words).
 PASSAGE_TARGET_WORDS = 150

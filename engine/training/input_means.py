@@ -1,5 +1,5 @@
-"""Measure, on training windows only, the per-channel input ranges that smoothed int8 paths need
-(engine.reader.smoothing), and store them in the reader folder."""
+"""Measure, on training windows only, the per-channel input means that bias-corrected int8 paths need
+(engine.reader.bias_correction), and store them in the reader folder."""
 
 from __future__ import annotations
 
@@ -9,22 +9,22 @@ from pathlib import Path
 
 import numpy as np
 
-from engine.reader.smoothing import measure_activation_ranges, save_activation_ranges
+from engine.reader.bias_correction import measure_input_means, save_input_means
 from engine.reader.windows import build_windows
 from engine.squad_data import load_examples
 
 # Questions sampled from each train/ file; the first window of each is read. A common-practice calibration size
-# with no source (SmoothQuant used a few hundred sentences).
-RANGE_QUESTIONS_PER_FILE = 64
+# with no source.
+MEAN_QUESTIONS_PER_FILE = 64
 
 
-def range_windows(tokenizer, data_dir: Path, seed: int = 7,
-                  per_file: int = RANGE_QUESTIONS_PER_FILE) -> list[dict[str, np.ndarray]]:
+def mean_windows(tokenizer, data_dir: Path, seed: int = 7,
+                  per_file: int = MEAN_QUESTIONS_PER_FILE) -> list[dict[str, np.ndarray]]:
     """The first window of ``per_file`` questions drawn (``random.Random(seed)``) from every train/*.json.gz file,
     as unpadded model inputs. Never reads dev/ or test/."""
     files = sorted((Path(data_dir) / "train").glob("*.json.gz"))
     if not files:
-        raise FileNotFoundError(f"no training files to measure activation ranges on (looked in {data_dir}/train)")
+        raise FileNotFoundError(f"no training files to measure input means on (looked in {data_dir}/train)")
     rng = random.Random(seed)
     encoded = []
     for path in files:
@@ -40,9 +40,9 @@ def range_windows(tokenizer, data_dir: Path, seed: int = 7,
     return encoded
 
 
-def write_activation_ranges(model_dir: Path, data_dir: Path, seed: int = 7) -> Path:
-    """Load the reader in fp32 (as TransformerReader does), measure max|X_j| for every encoder Linear on
-    ``range_windows`` and write them beside its weights."""
+def write_input_means(model_dir: Path, data_dir: Path, seed: int = 7) -> Path:
+    """Load the reader in fp32 (as TransformerReader does), measure E[x] per input channel of every encoder Linear on
+    ``mean_windows`` and write them beside its weights."""
     os.environ["HF_HUB_OFFLINE"] = "1"
     import torch
     from transformers import AutoModelForQuestionAnswering, AutoTokenizer
@@ -50,5 +50,5 @@ def write_activation_ranges(model_dir: Path, data_dir: Path, seed: int = 7) -> P
     tokenizer = AutoTokenizer.from_pretrained(model_dir, local_files_only=True)
     model = AutoModelForQuestionAnswering.from_pretrained(
         model_dir, local_files_only=True, use_safetensors=True, dtype=torch.float32).eval()
-    ranges = measure_activation_ranges(model, range_windows(tokenizer, data_dir, seed))
-    return save_activation_ranges(ranges, model_dir)
+    means = measure_input_means(model, mean_windows(tokenizer, data_dir, seed))
+    return save_input_means(means, model_dir)
