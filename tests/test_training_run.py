@@ -47,3 +47,30 @@ def test_calibrate_reader_names_a_missing_trained_folder_and_writes_nothing(tmp_
     err = capsys.readouterr().err
     assert str(missing) in err and "config.json" in err and "Traceback" not in err
     assert not target.exists() and not target.with_name(target.name + ".tmp").exists()
+
+
+def test_calibrate_reader_in_place_keeps_the_weights_and_replaces_only_the_calibration(tmp_path, monkeypatch, capsys):
+    import json
+
+    import engine.training.calibrate
+    import engine.training.export
+    from engine.calibration import Calibration, load_calibration
+    from engine.cli import main
+
+    folder = tmp_path / "reader"
+    folder.mkdir()
+    (folder / "config.json").write_text("{}", encoding="utf-8")
+    (folder / "excerptor.json").write_text(json.dumps({"null_margin_threshold": 9.0}), encoding="utf-8")
+
+    def no_export(*_args, **_kwargs):
+        raise AssertionError("an in-place recalibration must not re-export (and so rewrite) the weights")
+
+    fitted = Calibration(null_margin_threshold=1.5, fusion_weight=0.2, default_quantize="attention")
+    monkeypatch.setattr(engine.training.export, "export_reader", no_export)
+    monkeypatch.setattr(engine.training.calibrate, "calibrate", lambda target, data_dir: {"calibration": fitted,
+                                                                                          "dev_mix_size": 3})
+    assert main(["calibrate-reader", str(folder), "--out", str(folder)]) == 0
+    assert load_calibration(folder) == fitted
+    assert json.loads((folder / "excerptor.json").read_text(encoding="utf-8"))["dev_mix_size"] == 3
+    assert sorted(p.name for p in folder.iterdir()) == ["config.json", "excerptor.json"]  # no temporary file left
+    capsys.readouterr()

@@ -14,17 +14,13 @@ from engine import defaults
 from engine.model_folder import require_model_folder
 from engine.reader.decode import decode_spans, token_span_to_chars
 from engine.reader.interface import Reading, ReadSpan
-from engine.reader.bias_correction import load_input_means
 from engine.reader.span_choice import choose_span
 from engine.reader.windows import Window, build_windows, pad_batch
 
 QUANTIZE_CHOICES = (
     "none", "attention", "all-but-ffn-output", "all", "all-but-ffn-output-per-channel", "all-per-channel",
-    "attention-bias-corrected", "all-but-ffn-output-bias-corrected", "all-bias-corrected",
-    "all-but-ffn-output-per-channel-bias-corrected", "all-per-channel-bias-corrected",
 )
 PER_CHANNEL_SUFFIX = "-per-channel"
-BIAS_CORRECTED_SUFFIX = "-bias-corrected"
 # torch 2.13 (pinned) warns on every quantised-tensor creation that these functions will go in a later release. They
 # work in the pinned version and the int8 path is tested, so the notice is kept out of the user's terminal.
 TORCH_QUANTIZED_DEPRECATION = r"torch\.quantize_per_tensor, torch\.quantize_per_channel and other quantized tensor"
@@ -40,48 +36,39 @@ def default_model_dir() -> Path:
     return Path(override) if override else repository_root() / defaults.READER_MODEL_DIR
 
 
-def quantize_reader(model, mode: str, input_means=None):
+def quantize_reader(model, mode: str):
     """int8 dynamic quantisation (``torch.ao.quantization.quantize_dynamic``) of a chosen set of Linear layers.
 
     ``attention``: query/key/value/attention-output layers; ``all-but-ffn-output``: every Linear except each
     feed-forward block's output projection; ``all``: every Linear in the encoder (the span head stays fp32).
     A ``-per-channel`` mode quantises the same layers with one weight scale per output row instead of one per
     tensor (``per_channel_dynamic_qconfig``), which keeps more precision for rows with small weights.
-    A ``-bias-corrected`` mode then sets each quantised layer's bias to b - e E[x] (``engine.reader.bias_correction``),
-    with ``input_means`` the per-channel input means E[x] measured on training windows.
     """
     import torch
     from torch.ao.quantization import default_dynamic_qconfig, per_channel_dynamic_qconfig, quantize_dynamic
-
-    from engine.reader.bias_correction import correct_biases, correctable_linears
 
     if mode not in QUANTIZE_CHOICES:
         raise ValueError(f"quantize must be one of {QUANTIZE_CHOICES} (got {mode!r})")
     if mode == "none":
         return model
-    corrected = mode.endswith(BIAS_CORRECTED_SUFFIX)
-    if corrected:
-        if input_means is None:
-            raise ValueError(f"quantize={mode!r} needs input means (got None)")
-        mode = mode[: -len(BIAS_CORRECTED_SUFFIX)]
     qconfig = default_dynamic_qconfig
     if mode.endswith(PER_CHANNEL_SUFFIX):
         mode, qconfig = mode[: -len(PER_CHANNEL_SUFFIX)], per_channel_dynamic_qconfig
     names = set()
-    for name in correctable_linears(model):
+    for name, module in model.named_modules():
+        if not isinstance(module, torch.nn.Linear) or "qa_outputs" in name:
+            continue
         is_attention = ".attention." in name
         is_ffn_output = name.endswith(".output.dense") and ".attention." not in name
-        if (mode == "attention" and is_attention) or (mode == "all-but-ffn-output" and not is_ffn_output) \
-                or mode == "all":
+        if mode == "attention" and is_attention:
             names.add(name)
-    modules = dict(model.named_modules())
-    float_weights = {name: modules[name].weight.detach().clone() for name in names} if corrected else {}
+        elif mode == "all-but-ffn-output" and not is_ffn_output:
+            names.add(name)
+        elif mode == "all":
+            names.add(name)
     with warnings.catch_warnings():
         warnings.filterwarnings("ignore", message=TORCH_QUANTIZED_DEPRECATION, category=UserWarning)
-        quantized = quantize_dynamic(model, {name: qconfig for name in names}, dtype=torch.qint8)
-        if corrected:
-            correct_biases(quantized, float_weights, input_means)
-    return quantized
+        return quantize_dynamic(model, {name: qconfig for name in names}, dtype=torch.qint8)
 
 
 @contextmanager
@@ -130,8 +117,7 @@ class TransformerReader:
                 self.model_dir, local_files_only=True, use_safetensors=True, dtype=torch.float32
             )
         model.eval()
-        means = load_input_means(self.model_dir) if self.quantize.endswith(BIAS_CORRECTED_SUFFIX) else None
-        self.model = quantize_reader(model, self.quantize, means)
+        self.model = quantize_reader(model, self.quantize)
         self.batch_size = batch_size
         self.max_length = max_length
         self.stride = stride

@@ -1,7 +1,6 @@
 """Tune, on dev data only, what the shipped reader needs besides its weights.
 
-- quantisation: the per-channel input means that the bias-corrected int8 variants need (measured on train/ windows; the
-  one step here that reads train/), then the fastest int8 variant whose F1 loss against fp32 is at most MAX_F1_LOSS with 95 % confidence,
+- quantisation: the fastest int8 variant whose F1 loss against fp32 is at most MAX_F1_LOSS with 95 % confidence,
   over three dev sets that count equally: TyDi-en dev (general text), CUAD dev answer slices (contract clauses)
   and CUAD dev short answers (titles, parties and dates asked as plain questions, the product's commonest kind).
   The bound is the worst end of a stratified paired-bootstrap interval of the loss, and each set's own loss must
@@ -35,7 +34,6 @@ from engine.evaluation import open_corpus_passages, per_question_f1, predict_exa
 from engine.metrics import f1_v1, f1_v2
 from engine.squad_data import SquadExample, load_examples
 from engine.text_tokens import tokenize_for_search
-from engine.training.input_means import write_input_means
 from engine.training.features import expand_examples
 from engine.training.rewrite_negatives import rewritten_negatives
 from engine.training.short_contract_questions import short_contract_questions
@@ -246,8 +244,6 @@ def fastest_within_loss(variants: dict[str, dict], max_loss: float = MAX_F1_LOSS
 def calibrate(model_dir: Path, data_dir: Path, seed: int = 7, log=print) -> dict:
     from engine.reader.transformer_reader import TransformerReader
 
-    means_file = write_input_means(model_dir, data_dir, seed)
-    log(f"input means for the bias-corrected int8 paths: {means_file} (train/ windows only)")
     rng = random.Random(seed)
     variants = quantize_variants(model_dir, data_dir, random.Random(seed), log)
     chosen = fastest_within_loss(variants)
