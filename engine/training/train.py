@@ -39,6 +39,9 @@ class TrainConfig:
     # CUAD questions (a random sample, answerable or not) that each add their best BM25 slice holding no answer as
     # an unanswerable pair (engine.training.retrieved_negatives); 0 = none.
     cuad_retrieved_negatives: int = 0
+    # Copies of each CUAD term question (durations and end dates asked as plain questions over their own slice,
+    # engine.training.term_questions), each copy with the question's opening-slice negative once; 0 = none.
+    cuad_term_question_copies: int = 0
     long_negatives_per_example: float = 0.3
     synthetic_windows: int = 12000
     same_title_negative_rate: float = 0.0  # share of general questions also paired with another paragraph
@@ -131,6 +134,7 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
     from engine.training.retrieved_negatives import retrieved_negatives
     from engine.training.short_contract_questions import short_contract_questions
     from engine.training.swap_negatives import swapped_entity_negatives
+    from engine.training.term_questions import opening_slice_negatives, term_questions
 
     for name in ("general_negative_loss_weight", "contract_negative_loss_weight"):
         if getattr(config, name) < 0:
@@ -160,10 +164,17 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
             if config.cuad_retrieved_negatives:  # drawn last, so runs without it keep their random draws
                 retrieved = retrieved_negatives(rng.sample(items, min(len(items), config.cuad_retrieved_negatives)))
                 counts[entry + " retrieved negatives"] = len(retrieved)
-            items = sliced + neg + plain + retrieved
+            terms, openings = [], []
+            for _ in range(config.cuad_term_question_copies):  # drawn after the rest, so runs without it keep theirs
+                terms += term_questions(positives, rng)
+                openings += opening_slice_negatives(positives)
+            if terms:
+                counts[entry + " term questions"] = len(terms)
+                counts[entry + " opening-slice negatives"] = len(openings)
+            items = sliced + neg + plain + retrieved + terms + openings
             contract_weight = config.contract_negative_loss_weight
             weights = ([1.0] * len(sliced) + [contract_weight] * len(neg) + [1.0] * len(plain)
-                       + [contract_weight] * len(retrieved))
+                       + [contract_weight] * len(retrieved) + [1.0] * len(terms) + [contract_weight] * len(openings))
         else:
             if config.consensus_labels:
                 relabelled = [with_consensus_first(e) for e in items]
