@@ -77,7 +77,9 @@ def term_questions(examples: Sequence[SquadExample], rng: random.Random,
         lo = max(0, first.start - rng.randint(0, max(0, slice_chars - len(first.text))))
         hi = min(len(example.context), lo + slice_chars)
         kept = tuple(GoldAnswer(g.text, g.start - lo) for g in golds if g.start >= lo and g.start + len(g.text) <= hi)
-        out.append(SquadExample(f"{example.qid}#term", example.title, question, example.context[lo:hi], kept, False))
+        if kept:  # empty only when a match is longer than the slice
+            out.append(SquadExample(f"{example.qid}#term", example.title, question, example.context[lo:hi], kept,
+                                    False))
     return out
 
 
