@@ -45,9 +45,11 @@ def test_per_channel_int8_tracks_fp32_closer_than_per_tensor(model_and_inputs):
     model, inputs = model_and_inputs
     reference = logits(model, inputs)
     error = {mode: np.abs(logits(quantize_reader(copy.deepcopy(model), mode), inputs) - reference).mean()
-             for mode in ("all", "all-per-channel", "all-but-ffn-output-per-channel")}
+             for mode in ("all", "all-per-channel", "all-but-ffn-output", "all-but-ffn-output-per-channel")}
+    # Same layers, finer scales: closer to fp32. (Quantising fewer layers is not compared: on one input it need not
+    # be closer, and with reader-v8 `all-but-ffn-output-per-channel` is 0.230 off against `all-per-channel`'s 0.215.)
     assert 0 < error["all-per-channel"] < error["all"]
-    assert error["all-but-ffn-output-per-channel"] < error["all-per-channel"]
+    assert 0 < error["all-but-ffn-output-per-channel"] < error["all-but-ffn-output"]
     # Every variant still points at the same best start and end token as fp32.
     for mode in ("all-per-channel", "all-but-ffn-output-per-channel"):
         q = logits(quantize_reader(copy.deepcopy(model), mode), inputs)
