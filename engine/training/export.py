@@ -2,11 +2,11 @@
 
 from __future__ import annotations
 
-import json
 import os
 import shutil
 from pathlib import Path
 
+from engine.calibration import write_calibration_file
 from engine.model_folder import packaged_encoder_dir, require_model_folder
 
 
@@ -24,7 +24,7 @@ def export_reader(trained_dir: Path, target_dir: Path, calibration: dict) -> Pat
     model.to(torch.float16).save_pretrained(tmp, safe_serialization=True)
     tokenizer_dir = trained_dir if (trained_dir / "tokenizer.json").exists() else packaged_encoder_dir()
     AutoTokenizer.from_pretrained(tokenizer_dir, local_files_only=True).save_pretrained(tmp)
-    (tmp / "excerptor.json").write_text(json.dumps(calibration, indent=2, sort_keys=True) + "\n", encoding="utf-8")
+    write_calibration_file(tmp, calibration)
     if target_dir.exists():
         shutil.rmtree(target_dir)
     os.replace(tmp, target_dir)

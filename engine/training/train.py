@@ -164,10 +164,11 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
             if config.cuad_retrieved_negatives:  # drawn last, so runs without it keep their random draws
                 retrieved = retrieved_negatives(rng.sample(items, min(len(items), config.cuad_retrieved_negatives)))
                 counts[entry + " retrieved negatives"] = len(retrieved)
-            terms, openings = [], []
-            for _ in range(config.cuad_term_question_copies):  # drawn after the rest, so runs without it keep theirs
-                terms += term_questions(positives, rng)
-                openings += opening_slice_negatives(positives)
+            copies, terms, openings = config.cuad_term_question_copies, [], []
+            for _ in range(copies):  # drawn after the rest, so runs without it keep theirs
+                terms += term_questions(positives, rng)  # each copy places its slices anew
+            if copies:  # the opening slices draw nothing at random: found once, repeated once per copy
+                openings = opening_slice_negatives(positives) * copies
             if terms:
                 counts[entry + " term questions"] = len(terms)
                 counts[entry + " opening-slice negatives"] = len(openings)
