@@ -36,36 +36,43 @@ def default_model_dir() -> Path:
     return Path(override) if override else repository_root() / defaults.READER_MODEL_DIR
 
 
-def quantize_reader(model, mode: str):
-    """int8 dynamic quantisation (``torch.ao.quantization.quantize_dynamic``) of a chosen set of Linear layers.
+def quantized_layer_names(model, mode: str) -> set[str]:
+    """Names of the Linear layers a quantisation mode turns into int8 (the span head always stays fp32).
 
     ``attention``: query/key/value/attention-output layers; ``all-but-ffn-output``: every Linear except each
-    feed-forward block's output projection; ``all``: every Linear in the encoder (the span head stays fp32).
-    A ``-per-channel`` mode quantises the same layers with one weight scale per output row instead of one per
-    tensor (``per_channel_dynamic_qconfig``), which keeps more precision for rows with small weights.
+    feed-forward block's output projection; ``all``: every Linear in the encoder. A ``-per-channel`` suffix names
+    the same layers as the mode without it.
+    """
+    import torch
+
+    if mode not in QUANTIZE_CHOICES:
+        raise ValueError(f"quantize must be one of {QUANTIZE_CHOICES} (got {mode!r})")
+    mode = mode.removesuffix(PER_CHANNEL_SUFFIX)
+    names = set()
+    for name, module in model.named_modules():
+        if mode == "none" or not isinstance(module, torch.nn.Linear) or "qa_outputs" in name:
+            continue
+        is_attention = ".attention." in name
+        is_ffn_output = name.endswith(".output.dense") and ".attention." not in name
+        if (mode == "attention" and is_attention) or (mode == "all-but-ffn-output" and not is_ffn_output) \
+                or mode == "all":
+            names.add(name)
+    return names
+
+
+def quantize_reader(model, mode: str):
+    """int8 dynamic quantisation (``torch.ao.quantization.quantize_dynamic``) of the layers
+    ``quantized_layer_names`` picks. A ``-per-channel`` mode quantises them with one weight scale per output row
+    instead of one per tensor (``per_channel_dynamic_qconfig``), which keeps more precision for rows with small
+    weights.
     """
     import torch
     from torch.ao.quantization import default_dynamic_qconfig, per_channel_dynamic_qconfig, quantize_dynamic
 
-    if mode not in QUANTIZE_CHOICES:
-        raise ValueError(f"quantize must be one of {QUANTIZE_CHOICES} (got {mode!r})")
+    names = quantized_layer_names(model, mode)
     if mode == "none":
         return model
-    qconfig = default_dynamic_qconfig
-    if mode.endswith(PER_CHANNEL_SUFFIX):
-        mode, qconfig = mode[: -len(PER_CHANNEL_SUFFIX)], per_channel_dynamic_qconfig
-    names = set()
-    for name, module in model.named_modules():
-        if not isinstance(module, torch.nn.Linear) or "qa_outputs" in name:
-            continue
-        is_attention = ".attention." in name
-        is_ffn_output = name.endswith(".output.dense") and ".attention." not in name
-        if mode == "attention" and is_attention:
-            names.add(name)
-        elif mode == "all-but-ffn-output" and not is_ffn_output:
-            names.add(name)
-        elif mode == "all":
-            names.add(name)
+    qconfig = per_channel_dynamic_qconfig if mode.endswith(PER_CHANNEL_SUFFIX) else default_dynamic_qconfig
     with warnings.catch_warnings():
         warnings.filterwarnings("ignore", message=TORCH_QUANTIZED_DEPRECATION, category=UserWarning)
         return quantize_dynamic(model, {name: qconfig for name in names}, dtype=torch.qint8)

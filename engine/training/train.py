@@ -62,6 +62,8 @@ class TrainConfig:
     epochs: float = 1.0
     max_steps: int = 0  # 0 = from epochs
     clip_norm: float = 1.0
+    # Train through the int8 rounding of this inference variant (engine.training.fake_quant); "none" = plain fp32.
+    fake_quant: str = "none"
     bf16: str = "auto"  # "auto": bf16 autocast only where the hardware has native bf16 (see use_bf16); "true"; "false"
     device: str = "cpu"  # "cpu" (the product's only need), or "cuda" to train on a GPU where one happens to exist
     checkpoint_every: int = 200
@@ -291,8 +293,13 @@ def train(config: TrainConfig) -> Path:
     import torch
     from transformers import AutoModelForQuestionAnswering, AutoTokenizer
 
+    from engine.reader.transformer_reader import QUANTIZE_CHOICES
+    from engine.training.fake_quant import apply_fake_quant, remove_fake_quant
     from engine.training.features import build_train_windows
     from engine.training.loss import weighted_span_loss
+
+    if config.fake_quant not in QUANTIZE_CHOICES:  # before data preparation, like the other settings
+        raise ValueError(f"fake_quant must be one of {QUANTIZE_CHOICES} (got {config.fake_quant!r})")
 
     device = training_device(config.device)  # a bad setting fails here, before data preparation
     bf16 = use_bf16(config.bf16, device=device)
@@ -320,6 +327,7 @@ def train(config: TrainConfig) -> Path:
     model = AutoModelForQuestionAnswering.from_pretrained(init, local_files_only=True, use_safetensors=True)
     model = model.float().to(device)  # committed readers are fp16; train (and keep AdamW moments) in fp32
     model.train()
+    fake_quantized = apply_fake_quant(model, config.fake_quant)  # before the optimiser: it shares the parameters
     decay = [p for n, p in model.named_parameters() if not any(s in n for s in ("bias", "LayerNorm"))]
     no_decay = [p for n, p in model.named_parameters() if any(s in n for s in ("bias", "LayerNorm"))]
     optimizer = torch.optim.AdamW([{"params": decay, "weight_decay": config.weight_decay},
@@ -336,7 +344,7 @@ def train(config: TrainConfig) -> Path:
                 scheduler.step()
         log(out_dir, f"resumed at step {step}")
     log(out_dir, f"training {total} steps of batch {config.batch_size}, warmup {warmup}, bf16 autocast {bf16}, "
-                 f"device {device}")
+                 f"device {device}, fake int8 on {len(fake_quantized)} layers ({config.fake_quant})")
     started, running, seen = time.time(), 0.0, 0
     while step < total:
         batch = {k: v.to(device) for k, v in collate(windows, batches[step]).items()}
@@ -364,6 +372,7 @@ def train(config: TrainConfig) -> Path:
             model.eval().to("cpu")  # the reader runs on CPU; the optimiser's moments stay where they are
             log(out_dir, f"eval step {step} {json.dumps(quick_dev_eval(model, tokenizer, config))}")
             model.to(device).train()
+    remove_fake_quant(model)
     final = out_dir / "final"
     model.to("cpu").save_pretrained(final, safe_serialization=True)
     tokenizer.save_pretrained(final)
