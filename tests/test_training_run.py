@@ -74,3 +74,25 @@ def test_calibrate_reader_in_place_keeps_the_weights_and_replaces_only_the_calib
     assert json.loads((folder / "excerptor.json").read_text(encoding="utf-8"))["dev_mix_size"] == 3
     assert sorted(p.name for p in folder.iterdir()) == ["config.json", "excerptor.json"]  # no temporary file left
     capsys.readouterr()
+
+
+def test_training_through_fake_int8_saves_a_plain_reader(tmp_path):
+    from safetensors import safe_open
+
+    config = dict(data_dir=str(tmp_path), out_dir=str(tmp_path / "run"), train_files=(write_general_file(tmp_path),),
+                  synthetic_windows=0, batch_size=8, max_steps=1, checkpoint_every=1, eval_every=0, log_every=1,
+                  bf16="false", seed=3, fake_quant="all-per-channel")
+    final = train(TrainConfig(**config))
+    log = (tmp_path / "run" / "train.log").read_text(encoding="utf-8")
+    assert "fake int8 on 36 layers (all-per-channel)" in log  # 6 layers x 6 Linear; the span head stays fp32
+    assert re.search(r"step 1/1 loss [0-9.]+", log)
+    with safe_open(final / "model.safetensors", framework="pt") as weights:
+        names = set(weights.keys())
+    assert "bert.encoder.layer.0.attention.self.query.weight" in names
+    assert not any("fake" in n or "original" in n for n in names)
+
+
+def test_an_unknown_fake_quant_mode_fails_before_anything_is_written(tmp_path):
+    with pytest.raises(ValueError, match=r"got 'int4'"):
+        train(TrainConfig(data_dir=str(tmp_path), out_dir=str(tmp_path / "run"), fake_quant="int4"))
+    assert not (tmp_path / "run").exists()

@@ -133,14 +133,20 @@ class TransformerReader:
         self.windows_read = 0
 
     def window_logits(self, windows: Sequence[Window]) -> list[tuple[np.ndarray, np.ndarray]]:
-        """Start and end logits per window. Windows are batched by length to limit padding."""
+        """Start and end logits per window. Windows are batched by length to limit padding.
+
+        Invariant: a window's logits do not depend on the other windows read with it. Dynamic int8 takes each
+        layer's input range over the whole batch, so an int8 path reads one window per forward pass (measured on
+        2 cores: 23.4 against 20.6 ms a window for the default variant); fp32 batches ``batch_size`` windows.
+        """
         import torch
 
+        batch_size = self.batch_size if self.quantize == "none" else 1
         order = sorted(range(len(windows)), key=lambda i: len(windows[i].input_ids))
         out: list[tuple[np.ndarray, np.ndarray] | None] = [None] * len(windows)
         with torch.inference_mode():
-            for lo in range(0, len(order), self.batch_size):
-                idx = order[lo: lo + self.batch_size]
+            for lo in range(0, len(order), batch_size):
+                idx = order[lo: lo + batch_size]
                 batch = {k: torch.from_numpy(v) for k, v in pad_batch([windows[i] for i in idx]).items()}
                 result = self.model(**batch)
                 starts = result.start_logits.float().numpy()
