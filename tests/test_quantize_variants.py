@@ -77,3 +77,21 @@ def test_int8_path_keeps_torchs_removal_notice_out_of_the_terminal_but_no_other_
     messages = [str(w.message) for w in caught]
     assert not any("quantize_per_tensor" in m for m in messages)
     assert "an unrelated notice" in messages
+
+
+@pytest.mark.parametrize("mode", ["all-but-ffn-output-per-channel", "all"])
+def test_an_int8_windows_logits_do_not_depend_on_the_windows_read_beside_it(mode):
+    """Dynamic int8 takes each layer's input range over the whole forward pass (torch's quantize_dynamic), so a
+    window read in a batch would borrow its neighbours' ranges; the reader reads int8 windows one at a time."""
+    from engine.reader.transformer_reader import TransformerReader
+    from engine.reader.windows import build_windows
+
+    reader = TransformerReader(reader_dir(), quantize=mode, batch_size=16)
+    pairs = [(QUESTION, CONTEXT),
+             ("What is the rent?", "The annual rent is forty thousand crowns, payable quarterly in advance. " * 12),
+             ("Who is the tenant?", "Harrow Mill Estates lets the store to Quayside Grain Cooperative. " * 6)]
+    windows = build_windows(reader.tokenizer, pairs, max_length=reader.max_length, stride=reader.stride)
+    alone = reader.window_logits(windows[:1])[0]
+    together = reader.window_logits(windows)[0]
+    assert len(windows) >= 3
+    assert np.array_equal(alone[0], together[0]) and np.array_equal(alone[1], together[1])
