@@ -9,8 +9,10 @@ as the identity (the straight-through estimator). This is quantisation-aware tra
 Grids (torch's dynamic int8 Linear on x86, fbgemm):
 - weight, symmetric int8: s = max|w| / 127.5 over the tensor, or over each output row for a ``-per-channel`` mode;
   q = clamp(round(w / s), -128, 127); w' = q s.
-- input, asymmetric over the whole tensor at run time, 7 bits (fbgemm's reduce_range): lo = min(min x, 0),
-  hi = max(max x, 0), s = (hi - lo) / 127, z = clamp(round(-lo / s), 0, 127); x' = (clamp(round(x / s) + z, 0, 127) - z) s.
+- input, asymmetric at run time, 7 bits (fbgemm's reduce_range): lo = min(min x, 0), hi = max(max x, 0),
+  s = (hi - lo) / 127, z = clamp(round(-lo / s), 0, 127); x' = (clamp(round(x / s) + z, 0, 127) - z) s. The range is
+  taken over each window of a (windows, tokens, features) input, because the reader reads int8 windows one per
+  forward pass (``TransformerReader.window_logits``); over the whole tensor for any other shape.
 The weights stay fp32 and are saved as usual; only the forward pass sees the grids.
 """
 
@@ -40,9 +42,13 @@ def fake_quantize_weight(weight: torch.Tensor, per_channel: bool) -> torch.Tenso
 
 
 def fake_quantize_input(x: torch.Tensor) -> torch.Tensor:
-    """Asymmetric 7-bit rounding of an activation over the whole tensor, its range widened to hold 0."""
+    """Asymmetric 7-bit rounding of an activation, its range (per window of a 3-D input) widened to hold 0."""
     v = x.detach().float()
-    lo, hi = torch.clamp(v.min(), max=0.0), torch.clamp(v.max(), min=0.0)
+    if v.dim() == 3:
+        lo, hi = v.amin(dim=(1, 2), keepdim=True), v.amax(dim=(1, 2), keepdim=True)
+    else:
+        lo, hi = v.min(), v.max()
+    lo, hi = torch.clamp(lo, max=0.0), torch.clamp(hi, min=0.0)
     scale = torch.clamp((hi - lo) / INPUT_QMAX, min=torch.finfo(torch.float32).eps)
     zero = torch.clamp(torch.round(-lo / scale), 0, INPUT_QMAX)
     rounded = (torch.clamp(torch.round(v / scale) + zero, 0, INPUT_QMAX) - zero) * scale
