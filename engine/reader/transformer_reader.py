@@ -48,9 +48,11 @@ def quantized_layer_names(model, mode: str) -> set[str]:
     if mode not in QUANTIZE_CHOICES:
         raise ValueError(f"quantize must be one of {QUANTIZE_CHOICES} (got {mode!r})")
     mode = mode.removesuffix(PER_CHANNEL_SUFFIX)
-    names = set()
+    names: set[str] = set()
+    if mode == "none":
+        return names
     for name, module in model.named_modules():
-        if mode == "none" or not isinstance(module, torch.nn.Linear) or "qa_outputs" in name:
+        if not isinstance(module, torch.nn.Linear) or "qa_outputs" in name:
             continue
         is_attention = ".attention." in name
         is_ffn_output = name.endswith(".output.dense") and ".attention." not in name

@@ -77,9 +77,7 @@ def apply_fake_quant(model: nn.Module, mode: str) -> list[str]:
     names = sorted(quantized_layer_names(model, mode))
     per_channel = mode.endswith(PER_CHANNEL_SUFFIX)
     for name in names:
-        parent_name, _, child = name.rpartition(".")
-        parent = model.get_submodule(parent_name)
-        setattr(parent, child, FakeQuantLinear(getattr(parent, child), per_channel))
+        _replace_module(model, name, FakeQuantLinear(model.get_submodule(name), per_channel))
     return names
 
 
@@ -87,8 +85,12 @@ def remove_fake_quant(model: nn.Module) -> int:
     """Swap every FakeQuantLinear back for a plain Linear with the same parameters; returns how many."""
     swapped = [(name, m) for name, m in model.named_modules() if isinstance(m, FakeQuantLinear)]
     for name, module in swapped:
-        parent_name, _, child = name.rpartition(".")
         plain = nn.Linear(module.in_features, module.out_features, bias=module.bias is not None, device="meta")
         plain.weight, plain.bias = module.weight, module.bias
-        setattr(model.get_submodule(parent_name), child, plain)
+        _replace_module(model, name, plain)
     return len(swapped)
+
+
+def _replace_module(model: nn.Module, name: str, replacement: nn.Module) -> None:
+    parent_name, _, child = name.rpartition(".")
+    setattr(model.get_submodule(parent_name), child, replacement)
