@@ -1,10 +1,11 @@
 """Tune, on dev data only, what the shipped reader needs besides its weights.
 
-- quantisation: the fastest int8 variant whose F1 loss against fp32 is at most MAX_F1_LOSS with 95 % confidence,
+- quantisation: the fastest int8 variant whose F1 loss against fp32 is at most DEV_INT8_LOSS_BUDGET (the issue's
+  MAX_F1_LOSS less the largest dev-to-test gap seen, DEV_TO_TEST_MARGIN) with 95 % confidence, else fp32,
   over three dev sets that count equally: TyDi-en dev (general text), CUAD dev answer slices (contract clauses)
   and CUAD dev short answers (titles, parties and dates asked as plain questions, the product's commonest kind).
   The bound is the worst end of a stratified paired-bootstrap interval of the loss, and each set's own loss must
-  also be within MAX_F1_LOSS. A point estimate alone is not enough: on 440 questions its 95 %
+  also be within that budget. A point estimate alone is not enough: on 440 questions its 95 %
   interval is about 4 points wide, so noise could pick a variant that loses 3 points on new text;
 - the no-answer margin threshold: the lowest (most abstaining) margin whose answerable-question F1 on a dev mix
   stays within HASANS_F1_BUDGET of answering everything. The mix: TyDi-en dev with its own paragraph, the same
@@ -40,6 +41,10 @@ from engine.training.short_contract_questions import short_contract_questions
 from engine.training.swap_negatives import swapped_entity_negatives
 
 MAX_F1_LOSS = 1.5
+# The dev bound has understated the test loss of the same int8 path by up to 1.41 points (reader-v8
+# `all-per-channel`: dev bound 0.87, XQuAD-en loss 2.28; docs/decision_rules.md, token21), so dev keeps that margin.
+DEV_TO_TEST_MARGIN = 1.41
+DEV_INT8_LOSS_BUDGET = round(MAX_F1_LOSS - DEV_TO_TEST_MARGIN, 2)
 # Answerable-question F1 we accept to lose to abstention, on dev. Below the 5-point goal on SQuAD v2.0 to leave
 # room for the dev-to-test shift; a design choice with no outside source.
 HASANS_F1_BUDGET = 4.0
@@ -246,8 +251,8 @@ def calibrate(model_dir: Path, data_dir: Path, seed: int = 7, log=print) -> dict
 
     rng = random.Random(seed)
     variants = quantize_variants(model_dir, data_dir, random.Random(seed), log)
-    chosen = fastest_within_loss(variants)
-    log(f"default quantisation: {chosen}")
+    chosen = fastest_within_loss(variants, max_loss=DEV_INT8_LOSS_BUDGET)
+    log(f"default quantisation: {chosen} (dev loss budget {DEV_INT8_LOSS_BUDGET})")
     reader = TransformerReader(model_dir, quantize=chosen)
     mix = dev_mix(data_dir, rng)
     predictions = predict_examples(reader, mix, threshold=None)

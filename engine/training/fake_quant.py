@@ -21,7 +21,11 @@ from __future__ import annotations
 import torch
 from torch import nn
 
-from engine.reader.transformer_reader import PER_CHANNEL_SUFFIX, quantized_layer_names
+from engine.reader.transformer_reader import PER_CHANNEL_SUFFIX, PER_TOKEN_SUFFIX, QUANTIZE_CHOICES, \
+    quantized_layer_names
+
+# The modes fake quantisation reproduces: torch's quantize_dynamic grids. Per-token int8 is not among them.
+FAKE_QUANT_CHOICES = tuple(m for m in QUANTIZE_CHOICES if not m.endswith(PER_TOKEN_SUFFIX))
 
 WEIGHT_QMIN, WEIGHT_QMAX = -128, 127
 INPUT_QMAX = 127  # reduce_range: 7 bits for the uint8 input
@@ -74,6 +78,8 @@ def apply_fake_quant(model: nn.Module, mode: str) -> list[str]:
 
     Returns the swapped layers' names, sorted ("none" swaps nothing). The model's state dict keys do not change.
     """
+    if mode not in FAKE_QUANT_CHOICES:
+        raise ValueError(f"fake quantisation supports {FAKE_QUANT_CHOICES} (got {mode!r})")
     names = sorted(quantized_layer_names(model, mode))
     per_channel = mode.endswith(PER_CHANNEL_SUFFIX)
     for name in names:

@@ -293,13 +293,12 @@ def train(config: TrainConfig) -> Path:
     import torch
     from transformers import AutoModelForQuestionAnswering, AutoTokenizer
 
-    from engine.reader.transformer_reader import QUANTIZE_CHOICES
-    from engine.training.fake_quant import apply_fake_quant, remove_fake_quant
+    from engine.training.fake_quant import FAKE_QUANT_CHOICES, apply_fake_quant, remove_fake_quant
     from engine.training.features import build_train_windows
     from engine.training.loss import weighted_span_loss
 
-    if config.fake_quant not in QUANTIZE_CHOICES:  # before data preparation, like the other settings
-        raise ValueError(f"fake_quant must be one of {QUANTIZE_CHOICES} (got {config.fake_quant!r})")
+    if config.fake_quant not in FAKE_QUANT_CHOICES:  # before data preparation, like the other settings
+        raise ValueError(f"fake_quant must be one of {FAKE_QUANT_CHOICES} (got {config.fake_quant!r})")
 
     device = training_device(config.device)  # a bad setting fails here, before data preparation
     bf16 = use_bf16(config.bf16, device=device)
