@@ -5,7 +5,7 @@
 Builds a folder of ``--docs`` synthetic contracts (.txt; invented clauses from
 ``engine.training.synth_contracts``), indexes it once, then sweeps the checklist (default: the starter checklist)
 with each reader under its own checklist name, so neither run skips cells of the other:
-- int8: the calibration's default quantisation (``all`` when the calibration says ``none``);
+- int8: the calibration's default quantisation (``all-per-token`` when the calibration says ``none``);
 - fp32: ``TransformerReader(quantize="none")``.
 cells/s = cells swept / sweep seconds; windows/s = reader windows / sweep seconds; ratio = int8 / fp32.
 Each reader reads one small warm-up pair before it is timed.
@@ -75,7 +75,7 @@ def reader_factories(fake: bool) -> list[tuple[str, ReaderFactory]] | None:
     if not (model_dir / "config.json").is_file():
         return None
     calibration = load_calibration(model_dir)
-    int8 = calibration.default_quantize if calibration.default_quantize != "none" else "all"
+    int8 = calibration.default_quantize if calibration.default_quantize != "none" else "all-per-token"
     return [("int8", lambda: (TransformerReader(model_dir, quantize=int8), calibration)),
             ("fp32", lambda: (TransformerReader(model_dir, quantize="none"), calibration))]
 

@@ -166,3 +166,24 @@ def test_interleaved_timing_takes_the_median_round_per_variant():
     assert speeds == {"none": pytest.approx(41.0), "all": pytest.approx(30.0)}
     with pytest.raises(ValueError, match=r"got rounds=0"):
         interleaved_ms_per_window(readers, [("q", "c")], rounds=0, clock=clock)
+
+
+def test_default_quantize_falls_back_to_the_lowest_bound_int8_variant_before_fp32():
+    # Numbers made up for the rule (token22): nothing is within the 0.09 dev budget, so the int8 variant with the lowest
+    # bound wins if it is within the 1.5; fp32 only when no int8 variant is.
+    from engine.training.calibrate import DEV_INT8_LOSS_BUDGET, default_quantize
+
+    assert DEV_INT8_LOSS_BUDGET == pytest.approx(1.5 - 1.41)
+    variants = {
+        "none": {"dev_f1": 66.0, "cuad_dev_f1": 59.0, "ms_per_window": 30.0, "loss_bound": 0.0},
+        "all-per-channel": {"dev_f1": 66.9, "cuad_dev_f1": 58.8, "ms_per_window": 18.0, "loss_bound": 0.87},
+        "all-but-ffn-output-per-token": {"dev_f1": 65.4, "cuad_dev_f1": 59.3, "ms_per_window": 19.0,
+                                         "loss_bound": 0.42},
+        "all": {"dev_f1": 64.2, "cuad_dev_f1": 57.4, "ms_per_window": 12.5, "loss_bound": 3.6},
+    }
+    assert default_quantize(variants) == "all-but-ffn-output-per-token"
+    variants["all-per-channel"]["loss_bound"] = 0.05  # within the dev budget: the fastest such variant
+    assert default_quantize(variants) == "all-per-channel"
+    for name in ("all-per-channel", "all-but-ffn-output-per-token"):
+        variants[name]["loss_bound"] = 1.6
+    assert default_quantize(variants) == "none"
