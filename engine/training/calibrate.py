@@ -1,7 +1,8 @@
 """Tune, on dev data only, what the shipped reader needs besides its weights.
 
-- quantisation: the fastest int8 variant whose F1 loss against fp32 is at most DEV_INT8_LOSS_BUDGET (the issue's
-  MAX_F1_LOSS less the largest dev-to-test gap seen, DEV_TO_TEST_MARGIN) with 95 % confidence, else fp32,
+- quantisation (``default_quantize``): the fastest int8 variant whose F1 loss against fp32 is at most
+  DEV_INT8_LOSS_BUDGET (the issue's MAX_F1_LOSS less the largest dev-to-test gap seen, DEV_TO_TEST_MARGIN) with 95 %
+  confidence; else the int8 variant with the lowest such bound if it is within MAX_F1_LOSS; else fp32. Measured
   over three dev sets that count equally: TyDi-en dev (general text), CUAD dev answer slices (contract clauses)
   and CUAD dev short answers (titles, parties and dates asked as plain questions, the product's commonest kind).
   The bound is the worst end of a stratified paired-bootstrap interval of the loss, and each set's own loss must
