@@ -81,6 +81,9 @@ def add_calibrate_parser(sub) -> None:
                    help="the training run's final/ folder (or the --out folder itself, to recalibrate it in place)")
     p.add_argument("--out", type=Path, default=None, help="model folder to write (default: the committed reader's)")
     p.add_argument("--data-dir", type=Path, default=Path("../shared/data/qa"))
+    p.add_argument("--quantize", default=None,
+                   help="make this variant the default path instead of the rule's pick; the variants recorded in the "
+                        "folder's excerptor.json are kept, not re-measured (measured afresh if none are recorded)")
     p.set_defaults(handler=run_calibrate)
 
 
@@ -93,11 +96,22 @@ def run_calibrate(args) -> int:
     target = args.out or default_model_dir()
     if Path(target).resolve() != Path(args.trained).resolve():
         export_reader(args.trained, target, {})  # else: recalibrate an exported reader in place
-    report = calibrate(target, args.data_dir)
+    known = recorded_variants(target) if args.quantize else None
+    report = calibrate(target, args.data_dir, quantize=args.quantize, known_variants=known)
     payload = calibration_dict(report.pop("calibration"), **report)
     write_calibration_file(target, payload)
     print(json.dumps(payload, indent=2, sort_keys=True))
     return 0
+
+
+def recorded_variants(model_dir: Path) -> dict | None:
+    """The ``quantize_variants`` a folder's calibration file recorded, or None."""
+    from engine.calibration import CALIBRATION_FILE
+
+    path = Path(model_dir) / CALIBRATION_FILE
+    if not path.is_file():
+        return None
+    return json.loads(path.read_text(encoding="utf-8")).get("quantize_variants") or None
 
 
 def add_average_parser(sub) -> None:

@@ -187,3 +187,21 @@ def test_default_quantize_falls_back_to_the_lowest_bound_int8_variant_before_fp3
     for name in ("all-per-channel", "all-but-ffn-output-per-token"):
         variants[name]["loss_bound"] = 1.6
     assert default_quantize(variants) == "none"
+
+
+def test_calibrate_refuses_an_unknown_given_path_before_reading_anything(tmp_path):
+    from engine.training.calibrate import calibrate
+
+    with pytest.raises(ValueError, match=r"got 'int4'"):
+        calibrate(tmp_path, tmp_path, quantize="int4")
+
+
+def test_a_given_path_reuses_the_variants_the_folder_recorded(tmp_path):
+    import json
+
+    from engine.cli_train import recorded_variants
+
+    assert recorded_variants(tmp_path) is None
+    variants = {"none": {"dev_f1": 66.0, "ms_per_window": 30.0}}
+    (tmp_path / "excerptor.json").write_text(json.dumps({"quantize_variants": variants}), encoding="utf-8")
+    assert recorded_variants(tmp_path) == variants

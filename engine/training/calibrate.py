@@ -264,14 +264,19 @@ def default_quantize(variants: dict[str, dict]) -> str:
     return min(eligible, key=lambda m: (variants[m].get("loss_bound", 0.0), variants[m]["ms_per_window"]))
 
 
-def calibrate(model_dir: Path, data_dir: Path, seed: int = 7, log=print) -> dict:
-    from engine.reader.transformer_reader import TransformerReader
+def calibrate(model_dir: Path, data_dir: Path, seed: int = 7, log=print, quantize: str | None = None,
+              known_variants: dict[str, dict] | None = None) -> dict:
+    """Measure the variants (unless ``known_variants`` gives them), pick the default path (``quantize`` when given,
+    else ``default_quantize``), then fit the threshold, mu and confidence curve on that path."""
+    from engine.reader.transformer_reader import QUANTIZE_CHOICES, TransformerReader
 
+    if quantize is not None and quantize not in QUANTIZE_CHOICES:
+        raise ValueError(f"quantize must be one of {QUANTIZE_CHOICES} (got {quantize!r})")
     rng = random.Random(seed)
-    variants = quantize_variants(model_dir, data_dir, random.Random(seed), log)
-    chosen = default_quantize(variants)
-    log(f"default quantisation: {chosen} (dev loss budget {DEV_INT8_LOSS_BUDGET}, else the lowest bound within "
-        f"{MAX_F1_LOSS})")
+    variants = known_variants or quantize_variants(model_dir, data_dir, random.Random(seed), log)
+    chosen = quantize or default_quantize(variants)
+    log(f"default quantisation: {chosen} (" + ("given" if quantize else
+        f"dev loss budget {DEV_INT8_LOSS_BUDGET}, else the lowest bound within {MAX_F1_LOSS}") + ")")
     reader = TransformerReader(model_dir, quantize=chosen)
     mix = dev_mix(data_dir, rng)
     predictions = predict_examples(reader, mix, threshold=None)
