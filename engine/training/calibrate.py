@@ -252,7 +252,8 @@ def default_quantize(variants: dict[str, dict]) -> str:
     bound (ties: the faster) if it is within MAX_F1_LOSS on the bound and on every set; fp32 only when none is.
 
     The sweep and ``ask`` were specified with an int8 reader (token22 in docs/decision_rules.md), so fp32 is the last
-    resort, not the first."""
+    resort, not the first. The pick must then meet the speed goals on the benchmarks; if it misses one, the next
+    variant by bound that meets both is given to ``calibrate(quantize=...)`` (token23; DEVELOPERS.md)."""
     chosen = fastest_within_loss(variants, max_loss=DEV_INT8_LOSS_BUDGET)
     if chosen != "none":
         return chosen
