@@ -67,12 +67,21 @@ def test_calibrate_reader_in_place_keeps_the_weights_and_replaces_only_the_calib
 
     fitted = Calibration(null_margin_threshold=1.5, fusion_weight=0.2, default_quantize="attention")
     monkeypatch.setattr(engine.training.export, "export_reader", no_export)
-    monkeypatch.setattr(engine.training.calibrate, "calibrate", lambda target, data_dir: {"calibration": fitted,
-                                                                                          "dev_mix_size": 3})
+    calls = []
+
+    def fake_calibrate(target, data_dir, **options):
+        calls.append(options)
+        return {"calibration": fitted, "dev_mix_size": 3, "quantize_variants": {"none": {"dev_f1": 66.0}}}
+
+    monkeypatch.setattr(engine.training.calibrate, "calibrate", fake_calibrate)
     assert main(["calibrate-reader", str(folder), "--out", str(folder)]) == 0
     assert load_calibration(folder) == fitted
     assert json.loads((folder / "excerptor.json").read_text(encoding="utf-8"))["dev_mix_size"] == 3
     assert sorted(p.name for p in folder.iterdir()) == ["config.json", "excerptor.json"]  # no temporary file left
+    # A given path keeps the variants the folder recorded instead of measuring them again.
+    assert main(["calibrate-reader", str(folder), "--out", str(folder), "--quantize", "all-per-token"]) == 0
+    assert calls == [{"quantize": None, "known_variants": None},
+                     {"quantize": "all-per-token", "known_variants": {"none": {"dev_f1": 66.0}}}]
     capsys.readouterr()
 
 
