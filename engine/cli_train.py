@@ -60,7 +60,9 @@ def run_evaluate(args) -> int:
     reader = TransformerReader(args.model, quantize=args.quantize)
     threshold = args.threshold
     if threshold is None:
-        threshold = reader_calibration(reader.model_dir).get("null_margin_threshold", 0.0)
+        from engine.calibration import load_calibration
+
+        threshold = load_calibration(reader.model_dir).null_margin_threshold
     started = time.perf_counter()
     scores, predictions = evaluate_file(reader, args.data, args.limit, threshold)
     seconds = time.perf_counter() - started
@@ -129,11 +131,6 @@ def run_average(args) -> int:
 
     print(average_readers(args.first, args.second, args.out, args.alpha))
     return 0
-
-
-def reader_calibration(model_dir: Path) -> dict:
-    path = Path(model_dir) / "excerptor.json"
-    return json.loads(path.read_text(encoding="utf-8")) if path.exists() else {}
 
 
 if __name__ == "__main__":  # pragma: no cover
