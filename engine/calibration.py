@@ -45,13 +45,15 @@ class Calibration:
         return (1.0 - self.fusion_weight) * bm25_relative + self.fusion_weight * margin
 
 
-def load_calibration(model_dir: Path) -> Calibration:
+def read_calibration_file(model_dir: Path) -> dict:
+    """Everything a reader folder's ``CALIBRATION_FILE`` records ({} when it has none)."""
     path = Path(model_dir) / CALIBRATION_FILE
-    if not path.exists():
-        return Calibration()
-    raw = json.loads(path.read_text(encoding="utf-8"))
-    known = {k: raw[k] for k in Calibration.__dataclass_fields__ if k in raw}
-    return Calibration(**known)
+    return json.loads(path.read_text(encoding="utf-8")) if path.exists() else {}
+
+
+def load_calibration(model_dir: Path) -> Calibration:
+    raw = read_calibration_file(model_dir)
+    return Calibration(**{k: raw[k] for k in Calibration.__dataclass_fields__ if k in raw})
 
 
 def calibration_dict(calibration: Calibration, **extra) -> dict:

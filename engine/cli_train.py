@@ -108,12 +108,9 @@ def run_calibrate(args) -> int:
 
 def recorded_variants(model_dir: Path) -> dict | None:
     """The ``quantize_variants`` a folder's calibration file recorded, or None."""
-    from engine.calibration import CALIBRATION_FILE
+    from engine.calibration import read_calibration_file
 
-    path = Path(model_dir) / CALIBRATION_FILE
-    if not path.is_file():
-        return None
-    return json.loads(path.read_text(encoding="utf-8")).get("quantize_variants") or None
+    return read_calibration_file(model_dir).get("quantize_variants") or None
 
 
 def add_average_parser(sub) -> None:

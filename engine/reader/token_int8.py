@@ -19,6 +19,8 @@ from __future__ import annotations
 import torch
 from torch import nn
 
+from engine.reader.transformer_reader import replace_module
+
 INT8_LEVELS = 127  # symmetric: -127..127, so that round(v / s) never needs -128
 _TINY = 1e-12  # scale floor for an all-zero row or input; its product is then exactly zero
 
@@ -59,7 +61,5 @@ class TokenInt8Linear(nn.Module):
 def swap_in_token_int8(model: nn.Module, names: set[str]) -> nn.Module:
     """Replace each named Linear of ``model`` by a ``TokenInt8Linear``, in place; returns the model."""
     for name in sorted(names):
-        parent_name, _, child = name.rpartition(".")
-        parent = model.get_submodule(parent_name)
-        setattr(parent, child, TokenInt8Linear(getattr(parent, child)))
+        replace_module(model, name, TokenInt8Linear(model.get_submodule(name)))
     return model

@@ -64,6 +64,12 @@ def quantized_layer_names(model, mode: str) -> set[str]:
     return names
 
 
+def replace_module(model, name: str, replacement) -> None:
+    """Put ``replacement`` where the submodule ``name`` (dotted path) of ``model`` was."""
+    parent_name, _, child = name.rpartition(".")
+    setattr(model.get_submodule(parent_name), child, replacement)
+
+
 def quantize_reader(model, mode: str):
     """int8 dynamic quantisation (``torch.ao.quantization.quantize_dynamic``) of the layers
     ``quantized_layer_names`` picks. A ``-per-channel`` mode quantises them with one weight scale per output row
@@ -209,10 +215,7 @@ def collect_readings(pairs, windows, logits, n_best: int, max_answer_tokens: int
 
 
 def read_default_quantize(model_dir: Path) -> str:
-    """The model folder's ``excerptor.json`` names its default quantisation; 'none' if absent."""
-    import json
+    """The model folder's calibration names its default quantisation; 'none' if absent."""
+    from engine.calibration import load_calibration
 
-    meta = model_dir / "excerptor.json"
-    if meta.exists():
-        return json.loads(meta.read_text(encoding="utf-8")).get("default_quantize", "none")
-    return "none"
+    return load_calibration(model_dir).default_quantize

@@ -239,12 +239,17 @@ def interleaved_ms_per_window(readers: dict, pairs: list[tuple[str, str]], round
 def fastest_within_loss(variants: dict[str, dict], max_loss: float = MAX_F1_LOSS) -> str:
     """The variant with the lowest ms/window whose F1 on every dev set is >= fp32 ("none") minus ``max_loss`` and,
     where measured, whose "loss_bound" (95 % upper bound of the loss) is <= ``max_loss``. fp32 always qualifies."""
+    return min(["none", *int8_within_loss(variants, max_loss)], key=lambda m: variants[m]["ms_per_window"])
+
+
+def int8_within_loss(variants: dict[str, dict], max_loss: float) -> list[str]:
+    """The int8 variants whose F1 on every dev set is >= fp32's minus ``max_loss`` and whose "loss_bound", where
+    measured, is <= ``max_loss``."""
     if "none" not in variants:
         raise ValueError(f"variants need the fp32 baseline 'none' (got {sorted(variants)})")
     keys = [k for k in variants["none"] if k.endswith("f1")]
-    eligible = [m for m, v in variants.items() if m == "none" or (
-        all(v[k] >= variants["none"][k] - max_loss for k in keys) and v.get("loss_bound", 0.0) <= max_loss)]
-    return min(eligible, key=lambda m: variants[m]["ms_per_window"])
+    return [m for m, v in variants.items() if m != "none" and v.get("loss_bound", 0.0) <= max_loss
+            and all(v[k] >= variants["none"][k] - max_loss for k in keys)]
 
 
 def default_quantize(variants: dict[str, dict]) -> str:
@@ -257,12 +262,9 @@ def default_quantize(variants: dict[str, dict]) -> str:
     chosen = fastest_within_loss(variants, max_loss=DEV_INT8_LOSS_BUDGET)
     if chosen != "none":
         return chosen
-    keys = [k for k in variants["none"] if k.endswith("f1")]
-    eligible = [m for m, v in variants.items() if m != "none" and v.get("loss_bound", 0.0) <= MAX_F1_LOSS
-                and all(v[k] >= variants["none"][k] - MAX_F1_LOSS for k in keys)]
-    if not eligible:
-        return "none"
-    return min(eligible, key=lambda m: (variants[m].get("loss_bound", 0.0), variants[m]["ms_per_window"]))
+    eligible = int8_within_loss(variants, MAX_F1_LOSS)
+    return min(eligible, key=lambda m: (variants[m].get("loss_bound", 0.0), variants[m]["ms_per_window"]),
+               default="none")
 
 
 def calibrate(model_dir: Path, data_dir: Path, seed: int = 7, log=print, quantize: str | None = None,
@@ -276,8 +278,8 @@ def calibrate(model_dir: Path, data_dir: Path, seed: int = 7, log=print, quantiz
     rng = random.Random(seed)
     variants = known_variants or quantize_variants(model_dir, data_dir, random.Random(seed), log)
     chosen = quantize or default_quantize(variants)
-    log(f"default quantisation: {chosen} (" + ("given" if quantize else
-        f"dev loss budget {DEV_INT8_LOSS_BUDGET}, else the lowest bound within {MAX_F1_LOSS}") + ")")
+    how = "given" if quantize else f"dev loss budget {DEV_INT8_LOSS_BUDGET}, else the lowest bound within {MAX_F1_LOSS}"
+    log(f"default quantisation: {chosen} ({how})")
     reader = TransformerReader(model_dir, quantize=chosen)
     mix = dev_mix(data_dir, rng)
     predictions = predict_examples(reader, mix, threshold=None)

@@ -22,7 +22,7 @@ import torch
 from torch import nn
 
 from engine.reader.transformer_reader import PER_CHANNEL_SUFFIX, PER_TOKEN_SUFFIX, QUANTIZE_CHOICES, \
-    quantized_layer_names
+    quantized_layer_names, replace_module
 
 # The modes fake quantisation reproduces: torch's quantize_dynamic grids. Per-token int8 is not among them.
 FAKE_QUANT_CHOICES = tuple(m for m in QUANTIZE_CHOICES if not m.endswith(PER_TOKEN_SUFFIX))
@@ -83,7 +83,7 @@ def apply_fake_quant(model: nn.Module, mode: str) -> list[str]:
     names = sorted(quantized_layer_names(model, mode))
     per_channel = mode.endswith(PER_CHANNEL_SUFFIX)
     for name in names:
-        _replace_module(model, name, FakeQuantLinear(model.get_submodule(name), per_channel))
+        replace_module(model, name, FakeQuantLinear(model.get_submodule(name), per_channel))
     return names
 
 
@@ -93,10 +93,5 @@ def remove_fake_quant(model: nn.Module) -> int:
     for name, module in swapped:
         plain = nn.Linear(module.in_features, module.out_features, bias=module.bias is not None, device="meta")
         plain.weight, plain.bias = module.weight, module.bias
-        _replace_module(model, name, plain)
+        replace_module(model, name, plain)
     return len(swapped)
-
-
-def _replace_module(model: nn.Module, name: str, replacement: nn.Module) -> None:
-    parent_name, _, child = name.rpartition(".")
-    setattr(model.get_submodule(parent_name), child, replacement)
