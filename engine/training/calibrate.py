@@ -12,8 +12,9 @@
   stays within HASANS_F1_BUDGET of answering everything. The mix: TyDi-en dev with its own paragraph, the same
   question against the BM25-nearest other paragraph (a topic-near negative), the question with one name or number
   swapped, or negated, or with one word turned to its antonym, against its own paragraph (SQuAD 2.0-style
-  negatives), and CUAD dev slices. The threshold that maximises v2.0 F1 on the mix is reported beside it, and so
-  is the share of each kind of negative abstained;
+  negatives), CUAD dev slices, and the question with a name or number swapped for another of its own paragraph.
+  The threshold that maximises v2.0 F1 on the mix is reported beside it, and so is the share of each kind of
+  negative abstained;
 - the fusion weight mu: maximises top-answer F1 when the 440 TyDi-en dev paragraphs form one BM25 corpus;
 - the confidence curve: a logistic fit of "top answer has F1 >= 0.5" on the margin.
 No test/ file is read here.
@@ -37,6 +38,7 @@ from engine.metrics import f1_v1, f1_v2
 from engine.squad_data import SquadExample, load_examples
 from engine.text_tokens import tokenize_for_search
 from engine.training.features import expand_examples
+from engine.training.inside_swap_negatives import inside_swap_negatives
 from engine.training.rewrite_negatives import rewritten_negatives
 from engine.training.short_contract_questions import short_contract_questions
 from engine.training.swap_negatives import swapped_entity_negatives
@@ -60,11 +62,13 @@ def dev_mix(data_dir: Path, rng: random.Random, cuad_limit: int = 400) -> list[S
     cuad = load_examples(data_dir / "dev/cuad_dev.json.gz")
     rng.shuffle(cuad)
     sliced = expand_examples(cuad[:cuad_limit], rng, negatives_per_example=0.5)
-    return (tydi + topic_near_negatives(tydi) + swapped_entity_negatives(tydi, rng, 1.0)
-            + rewritten_negatives(tydi, rng, 1.0) + sliced)
+    mix = (tydi + topic_near_negatives(tydi) + swapped_entity_negatives(tydi, rng, 1.0)
+           + rewritten_negatives(tydi, rng, 1.0) + sliced)
+    return mix + inside_swap_negatives(tydi, rng, 1.0)  # drawn last, so the older kinds keep their draws
 
 
-NEGATIVE_KINDS = {"#x": "topic_near", "#s": "swapped", "#g": "negated", "#a": "antonym", "#n": "cuad_slice"}
+NEGATIVE_KINDS = {"#x": "topic_near", "#s": "swapped", "#g": "negated", "#a": "antonym", "#n": "cuad_slice",
+                  "#i": "inside_swapped"}
 
 
 def abstention_by_kind(predictions, examples, threshold: float) -> dict[str, float]:

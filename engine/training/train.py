@@ -48,9 +48,11 @@ class TrainConfig:
     swap_negative_rate: float = 0.0  # share of general questions also given a swapped-name/number unanswerable twin
     rewrite_negative_rate: float = 0.0  # share of general questions also given a negated or antonym unanswerable twin
     removal_negative_rate: float = 0.0  # share of general questions also paired with their paragraph minus the answer
+    # share of general questions also given a twin with a name or number swapped for another of its own paragraph
+    inside_swap_negative_rate: float = 0.0
     consensus_labels: bool = False  # label with the medoid of several gold answers instead of the first
     # Loss weight of each window of a negative pair (engine.training.loss); answer windows keep 1.0.
-    general_negative_loss_weight: float = 1.0  # same-title, swapped, rewritten and removal negatives (non-CUAD files)
+    general_negative_loss_weight: float = 1.0  # same-title, swapped, rewritten, removal, inside-swap (non-CUAD files)
     contract_negative_loss_weight: float = 1.0  # CUAD negative slices and retrieved negatives
     seed: int = 13
     max_length: int = 256
@@ -130,6 +132,7 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
     """
     from engine.squad_data import iter_examples, load_examples, read_squad_json
     from engine.training.features import expand_examples, same_title_negatives
+    from engine.training.inside_swap_negatives import inside_swap_negatives
     from engine.training.label_choice import with_consensus_first
     from engine.training.removal_negatives import removed_sentence_negatives
     from engine.training.rewrite_negatives import rewritten_negatives
@@ -187,9 +190,10 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
             swapped = swapped_entity_negatives(items, rng, config.swap_negative_rate)
             rewritten = rewritten_negatives(items, rng, config.rewrite_negative_rate)
             removed = removed_sentence_negatives(items, rng, config.removal_negative_rate)
+            inside = inside_swap_negatives(items, rng, config.inside_swap_negative_rate)
             items = expand_examples(items, rng, config.long_negatives_per_example)
             weights = [1.0] * len(items) + [config.general_negative_loss_weight] * (
-                len(negatives) + len(swapped) + len(rewritten) + len(removed))
+                len(negatives) + len(swapped) + len(rewritten) + len(removed) + len(inside))
             if negatives:
                 counts[entry + " same-title negatives"] = len(negatives)
                 items += negatives
@@ -202,6 +206,9 @@ def assemble_examples(config: TrainConfig, rng: random.Random):
             if removed:
                 counts[entry + " answer-sentence-removed negatives"] = len(removed)
                 items += removed
+            if inside:
+                counts[entry + " inside-swap negatives"] = len(inside)
+                items += inside
         counts[entry] = len(items)
         examples.extend(items)
         loss_weights.extend(weights)
