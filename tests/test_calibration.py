@@ -81,16 +81,19 @@ def test_calibration_defaults_and_confidence_curve(tmp_path):
 def test_abstention_is_reported_per_kind_of_dev_negative():
     from engine.training.calibrate import abstention_by_kind
 
-    examples = [ex("a", "ninety days"), ex("q1#x", None), ex("q2#x", None), ex("q1#s", None), ex("c#n0", None)]
+    examples = [ex("a", "ninety days"), ex("q1#x", None), ex("q2#x", None), ex("q1#s", None), ex("c#n0", None),
+                ex("q1#i", None)]
     predictions = {
         "a": Prediction("ninety days", "ninety days", 5.0, 1.0),  # answerable: not counted
         "q1#x": Prediction("x", "x", 0.0, 2.0),  # margin 2 > 1: abstained
         "q2#x": Prediction("x", "x", 2.0, 1.0),  # margin -1: answered
         "q1#s": Prediction("x", "x", 1.0, 3.0),  # margin 2: abstained
         "c#n0": Prediction("x", "x", 3.0, 1.0),  # margin -2: answered
+        "q1#i": Prediction("x", "x", 4.0, 4.5),  # margin 0.5 <= 1: answered
     }
-    # Hand-computed at threshold 1: topic-near 1 of 2, swapped 1 of 1, CUAD slice 0 of 1.
-    assert abstention_by_kind(predictions, examples, 1.0) == {"cuad_slice": 0.0, "swapped": 100.0, "topic_near": 50.0}
+    # Hand-computed at threshold 1: topic-near 1 of 2, swapped 1 of 1, CUAD slice 0 of 1, inside-swapped 0 of 1.
+    assert abstention_by_kind(predictions, examples, 1.0) == {
+        "cuad_slice": 0.0, "inside_swapped": 0.0, "swapped": 100.0, "topic_near": 50.0}
 
 
 def test_fastest_within_loss_needs_every_dev_set_within_the_budget():
