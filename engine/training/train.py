@@ -409,6 +409,7 @@ class _InMemoryReader:
         reader.model, reader.tokenizer = model, tokenizer
         reader.batch_size, reader.max_length, reader.stride = 32, defaults.MAX_SEQ_LENGTH, defaults.DOC_STRIDE
         reader.max_answer_tokens, reader.windows_read, reader.name = defaults.MAX_ANSWER_TOKENS, 0, "training"
+        reader.quantize = "none"  # the model in training is fp32 (or fake int8 inside its own layers)
         self._reader = reader
         self.name = "training"
 
