@@ -172,8 +172,9 @@ def test_interleaved_timing_takes_the_median_round_per_variant():
 
 
 def test_default_quantize_falls_back_to_the_lowest_bound_int8_variant_before_fp32():
-    # Numbers made up for the rule (token22): nothing is within the 0.09 dev budget, so the int8 variant with the lowest
-    # bound wins if it is within the 1.5; fp32 only when no int8 variant is.
+    # Numbers made up for the rule (token22, token23): nothing is within the 0.09 dev budget, so the int8 variant with
+    # the lowest bound, among those that met the speed goals, wins if it is within the 1.5; fp32 only when no
+    # int8 variant is.
     from engine.training.calibrate import DEV_INT8_LOSS_BUDGET, default_quantize
 
     assert DEV_INT8_LOSS_BUDGET == pytest.approx(1.5 - 1.41)
@@ -184,11 +185,17 @@ def test_default_quantize_falls_back_to_the_lowest_bound_int8_variant_before_fp3
                                          "loss_bound": 0.42},
         "all": {"dev_f1": 64.2, "cuad_dev_f1": 57.4, "ms_per_window": 12.5, "loss_bound": 3.6},
     }
-    assert default_quantize(variants) == "all-but-ffn-output-per-token"
-    variants["all-per-channel"]["loss_bound"] = 0.05  # within the dev budget: the fastest such variant
+    every = tuple(variants)
+    assert default_quantize(variants, fast_enough=every) == "all-but-ffn-output-per-token"
+    # token23: only variants that met the speed goals count, so the lowest bound among them wins.
     assert default_quantize(variants) == "all-per-channel"
-    for name in ("all-per-channel", "all-but-ffn-output-per-token"):
+    variants["all-per-token"] = {"dev_f1": 65.4, "cuad_dev_f1": 59.4, "ms_per_window": 16.0, "loss_bound": 0.65}
+    assert default_quantize(variants) == "all-per-token"
+    variants["all-per-channel"]["loss_bound"] = 0.05  # within the dev budget: the fastest such variant
+    assert default_quantize(variants, fast_enough=every) == "all-per-channel"
+    for name in ("all-per-channel", "all-but-ffn-output-per-token", "all-per-token"):
         variants[name]["loss_bound"] = 1.6
+    assert default_quantize(variants, fast_enough=every) == "none"
     assert default_quantize(variants) == "none"
 
 
