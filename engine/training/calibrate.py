@@ -244,12 +244,6 @@ def interleaved_ms_per_window(readers: dict, pairs: list[tuple[str, str]], round
     return {name: float(np.median(values)) for name, values in samples.items()}
 
 
-def fastest_within_loss(variants: dict[str, dict], max_loss: float = MAX_F1_LOSS) -> str:
-    """The variant with the lowest ms/window whose F1 on every dev set is >= fp32 ("none") minus ``max_loss`` and,
-    where measured, whose "loss_bound" (95 % upper bound of the loss) is <= ``max_loss``. fp32 always qualifies."""
-    return min(["none", *int8_within_loss(variants, max_loss)], key=lambda m: variants[m]["ms_per_window"])
-
-
 def int8_within_loss(variants: dict[str, dict], max_loss: float) -> list[str]:
     """The int8 variants whose F1 on every dev set is >= fp32's minus ``max_loss`` and whose "loss_bound", where
     measured, is <= ``max_loss``."""
