@@ -132,18 +132,33 @@ class TransformerReader:
         if threads:
             torch.set_num_threads(threads)
         self.quantize = quantize or read_default_quantize(self.model_dir)
-        self.tokenizer = AutoTokenizer.from_pretrained(self.model_dir, local_files_only=True)
+        tokenizer = AutoTokenizer.from_pretrained(self.model_dir, local_files_only=True)
         with _no_progress_bar():
             model = AutoModelForQuestionAnswering.from_pretrained(
                 self.model_dir, local_files_only=True, use_safetensors=True, dtype=torch.float32
             )
         model.eval()
-        self.model = quantize_reader(model, self.quantize)
+        self._hold(quantize_reader(model, self.quantize), tokenizer, batch_size, max_length, stride,
+                   max_answer_tokens, name=f"{self.model_dir.name} ({self.quantize})")
+
+    @classmethod
+    def in_memory(cls, model, tokenizer, name: str = "in memory") -> "TransformerReader":
+        """A reader over a model already loaded in fp32 (a model being trained), with the default windows."""
+        reader = cls.__new__(cls)
+        reader.model_dir, reader.quantize = None, "none"
+        reader._hold(model, tokenizer, defaults.READER_BATCH_SIZE, defaults.MAX_SEQ_LENGTH, defaults.DOC_STRIDE,
+                     defaults.MAX_ANSWER_TOKENS, name=name)
+        return reader
+
+    def _hold(self, model, tokenizer, batch_size: int, max_length: int, stride: int, max_answer_tokens: int,
+              name: str) -> None:
+        """Set what reading needs besides ``model_dir`` and ``quantize``; the one place that lists it."""
+        self.model, self.tokenizer = model, tokenizer
         self.batch_size = batch_size
         self.max_length = max_length
         self.stride = stride
         self.max_answer_tokens = max_answer_tokens
-        self.name = f"{self.model_dir.name} ({self.quantize})"
+        self.name = name
         self.windows_read = 0
 
     def window_logits(self, windows: Sequence[Window]) -> list[tuple[np.ndarray, np.ndarray]]:

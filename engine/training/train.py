@@ -390,28 +390,10 @@ def quick_dev_eval(model, tokenizer, config: TrainConfig, limit: int = 300) -> d
     """v1.1 EM/F1 on the first ``limit`` TyDi-en dev questions (dev is for model selection)."""
     from engine.evaluation import predict_examples
     from engine.metrics import score_v1
+    from engine.reader.transformer_reader import TransformerReader
     from engine.squad_data import load_examples
 
     examples = load_examples(Path(config.data_dir) / "dev/tydiqa_goldp_en_dev.json.gz", limit=limit)
-    predictions = predict_examples(_InMemoryReader(model, tokenizer), examples, threshold=None)
+    predictions = predict_examples(TransformerReader.in_memory(model, tokenizer, "training"), examples, threshold=None)
     golds = {e.qid: [a.text for a in e.answers] for e in examples}
     return score_v1({k: v.text for k, v in predictions.items()}, golds).as_dict()
-
-
-class _InMemoryReader:
-    """Wraps a model being trained in the reader interface, for evaluation between steps."""
-
-    def __init__(self, model, tokenizer):
-        from engine import defaults
-        from engine.reader.transformer_reader import TransformerReader
-
-        reader = TransformerReader.__new__(TransformerReader)
-        reader.model, reader.tokenizer = model, tokenizer
-        reader.batch_size, reader.max_length, reader.stride = 32, defaults.MAX_SEQ_LENGTH, defaults.DOC_STRIDE
-        reader.max_answer_tokens, reader.windows_read, reader.name = defaults.MAX_ANSWER_TOKENS, 0, "training"
-        reader.quantize = "none"  # the model in training is fp32 (or fake int8 inside its own layers)
-        self._reader = reader
-        self.name = "training"
-
-    def read_pairs(self, pairs, n_best: int = 5):
-        return self._reader.read_pairs(pairs, n_best)
