@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import random
 from dataclasses import dataclass
-from typing import Sequence
+from typing import Iterator, Sequence
 
 from engine import defaults
 from engine.reader.windows import truncate_question
@@ -27,6 +27,17 @@ class TrainWindow:
     start_position: int
     end_position: int
     loss_weight: float = 1.0  # weight of this window in engine.training.loss.weighted_span_loss
+
+
+def drawn_answerable(examples: Sequence[SquadExample], rng: random.Random, rate: float) -> Iterator[SquadExample]:
+    """The answerable examples with a short context (<= LONG_CONTEXT_CHARS), each kept with probability ``rate``.
+
+    One ``rng.random()`` per such example, drawn lazily, so a caller's own draws between items keep their order.
+    A rate outside [0, 1] raises at once."""
+    if not 0.0 <= rate <= 1.0:
+        raise ValueError(f"rate must be in [0, 1] (got {rate})")
+    return (ex for ex in examples if rate > 0.0 and not ex.is_impossible and ex.answers
+            and len(ex.context) <= LONG_CONTEXT_CHARS and rng.random() < rate)
 
 
 def slice_long_example(

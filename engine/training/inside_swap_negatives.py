@@ -23,7 +23,7 @@ from typing import Sequence
 from engine.sentences import split_sentences
 from engine.squad_data import SquadExample
 from engine.text_tokens import tokenize_for_search
-from engine.training.features import LONG_CONTEXT_CHARS
+from engine.training.features import drawn_answerable
 from engine.training.swap_negatives import NAME_PATTERN, NUMBER_PATTERN, swappable_phrases
 
 QUESTION_WORDS = frozenset({"what", "who", "when", "where", "which", "why", "how", "the", "this", "that", "there"})
@@ -82,14 +82,8 @@ def inside_swap_negatives(
     Invariants of every result: the phrase put in occurs in the context, the phrase taken out occurs in the
     context, the context is unchanged, and the example is impossible with no answers.
     """
-    if not 0.0 <= rate <= 1.0:
-        raise ValueError(f"rate must be in [0, 1] (got {rate})")
-    if rate == 0.0:
-        return []
     out: list[SquadExample] = []
-    for ex in examples:
-        if ex.is_impossible or not ex.answers or len(ex.context) > LONG_CONTEXT_CHARS or rng.random() >= rate:
-            continue
+    for ex in drawn_answerable(examples, rng, rate):
         candidates = [c for c in swappable_phrases(ex.question) if c[1] in ex.context]
         if not candidates:
             continue

@@ -15,7 +15,7 @@ from typing import Sequence
 
 from engine.sentences import split_sentences
 from engine.squad_data import SquadExample
-from engine.training.features import LONG_CONTEXT_CHARS
+from engine.training.features import drawn_answerable
 
 MIN_KEPT_SENTENCES = 2  # fewer left would make the pair too easy (no source: our choice)
 
@@ -38,14 +38,8 @@ def removed_sentence_negatives(
     examples: Sequence[SquadExample], rng: random.Random, rate: float
 ) -> list[SquadExample]:
     """About ``rate`` of the answerable short-context questions get one twin whose paragraph lacks the answer."""
-    if not 0.0 <= rate <= 1.0:
-        raise ValueError(f"rate must be in [0, 1] (got {rate})")
-    if rate == 0.0:
-        return []
     out: list[SquadExample] = []
-    for ex in examples:
-        if ex.is_impossible or not ex.answers or len(ex.context) > LONG_CONTEXT_CHARS or rng.random() >= rate:
-            continue
+    for ex in drawn_answerable(examples, rng, rate):
         context = without_answer_sentences(ex)
         if context is not None:
             out.append(SquadExample(f"{ex.qid}#r", ex.title, ex.question, context, (), True))

@@ -21,7 +21,7 @@ import re
 from typing import Sequence
 
 from engine.squad_data import SquadExample
-from engine.training.features import LONG_CONTEXT_CHARS
+from engine.training.features import drawn_answerable
 
 # Word pairs in both directions. A hand-written list of everyday English opposites (common practice, no source).
 _PAIRS = (
@@ -100,14 +100,8 @@ def rewritten_negatives(examples: Sequence[SquadExample], rng: random.Random, ra
     Qid suffixes: "#g" for a negation, "#a" for an antonym. Each picked question tries its kinds in random order
     and keeps the first that applies.
     """
-    if not 0.0 <= rate <= 1.0:
-        raise ValueError(f"rate must be in [0, 1] (got {rate})")
     out: list[SquadExample] = []
-    if rate == 0.0:
-        return out
-    for ex in examples:
-        if ex.is_impossible or not ex.answers or len(ex.context) > LONG_CONTEXT_CHARS or rng.random() >= rate:
-            continue
+    for ex in drawn_answerable(examples, rng, rate):
         kinds = ["negation", "antonym"]
         rng.shuffle(kinds)
         for kind in kinds:
