@@ -29,10 +29,9 @@ from engine.evaluation import predict_examples  # noqa: E402
 from engine.squad_data import load_examples  # noqa: E402
 from engine.reader.transformer_reader import TransformerReader  # noqa: E402
 from engine.training.calibrate import abstention_by_kind, best_threshold, budget_threshold, dev_mix  # noqa: E402
-from engine.training.retrieved_negatives import retrieved_negatives  # noqa: E402
+from engine.training.retrieved_negatives import dev_check_negatives  # noqa: E402
 
 DATA = ROOT.parent / "shared" / "data" / "qa"
-RETRIEVED_SAMPLE = 400  # CUAD-dev questions; a sample size with no source, large enough for about +-2.5 points
 
 
 def main() -> int:
@@ -48,7 +47,7 @@ def main() -> int:
     budget["no_ans_abstained_by_kind"] = abstention_by_kind(predictions, mix, budget["threshold"])
     best_t, best_v2 = best_threshold(predictions, mix)
     cuad = load_examples(DATA / "dev/cuad_dev.json.gz")
-    retrieved = retrieved_negatives(random.Random(args.seed).sample(cuad, RETRIEVED_SAMPLE))
+    retrieved = dev_check_negatives(cuad, args.seed)
     held_out = predict_examples(reader, retrieved, threshold=None)
     caught = sum(abstains(held_out[e.qid].null_margin, budget["threshold"]) for e in retrieved)
     print(json.dumps({"model": str(args.model), "quantize": args.quantize, "dev_mix_size": len(mix),

@@ -4,8 +4,8 @@ Usage: .venv/bin/python scripts/split_threshold_check.py MODEL_DIR [MODEL_DIR ..
 
 For each reader, ``calibrate.budget_threshold`` (4-point HasAns budget) is fitted on the dev mix's general part
 (TyDi-en dev and its negatives) and on its contract part (CUAD-dev slices) separately; it prints each part's
-negatives abstained by kind, and the retrieved CUAD-dev negatives (dev_negatives_check.py's 400, seed 7) abstained at
-the contract threshold. Nothing from test/ is read.
+negatives abstained by kind, and the retrieved CUAD-dev negatives of the dev check
+(``retrieved_negatives.dev_check_negatives``) abstained at the contract threshold. Nothing from test/ is read.
 """
 
 from __future__ import annotations
@@ -23,16 +23,15 @@ from engine.evaluation import predict_examples  # noqa: E402
 from engine.squad_data import load_examples  # noqa: E402
 from engine.reader.transformer_reader import TransformerReader  # noqa: E402
 from engine.training.calibrate import abstention_by_kind, budget_threshold, dev_mix  # noqa: E402
-from engine.training.retrieved_negatives import retrieved_negatives  # noqa: E402
+from engine.training.retrieved_negatives import dev_check_negatives  # noqa: E402
 
 DATA = ROOT.parent / "shared" / "data" / "qa"
-RETRIEVED_SAMPLE = 400  # as scripts/dev_negatives_check.py
 
 
 def main(models: list[str]) -> int:
     mix = dev_mix(DATA, random.Random(7))
     cuad = load_examples(DATA / "dev/cuad_dev.json.gz")
-    retrieved = retrieved_negatives(random.Random(7).sample(cuad, RETRIEVED_SAMPLE))
+    retrieved = dev_check_negatives(cuad)
     contract = [e for e in mix if re.search(r"#[an]\d+$", e.qid)]  # CUAD slices: "#a<k>" answer, "#n<k>" none
     contract_ids = {e.qid for e in contract}
     general = [e for e in mix if e.qid not in contract_ids]

@@ -11,6 +11,7 @@ slices overlapping any gold span are dropped, and the ``per_question`` best by B
 
 from __future__ import annotations
 
+import random
 from typing import Sequence
 
 import numpy as np
@@ -19,6 +20,8 @@ from engine.bm25 import Bm25Index
 from engine.squad_data import SquadExample
 from engine.text_tokens import tokenize_for_search
 from engine.training.features import LONG_CONTEXT_CHARS, SLICE_CHARS
+
+DEV_CHECK_QUESTIONS = 400  # CUAD-dev questions in the dev check; a sample size with no source, about +-2.5 points
 
 
 def document_slices(context: str, size: int = SLICE_CHARS, step: int = SLICE_CHARS // 2) -> list[tuple[int, int]]:
@@ -55,3 +58,10 @@ def retrieved_negatives(examples: Sequence[SquadExample], per_question: int = 1)
             lo, hi = slices[pos]
             out.append(SquadExample(f"{ex.qid}#r{k}", ex.title, ex.question, ex.context[lo:hi], (), True))
     return out
+
+
+def dev_check_negatives(cuad_dev: Sequence[SquadExample], seed: int = 7,
+                        questions: int = DEV_CHECK_QUESTIONS) -> list[SquadExample]:
+    """The retrieved negatives of ``questions`` CUAD-dev questions drawn by ``random.Random(seed).sample``: the
+    contract-abstention measure the dev rules compare (scripts/dev_negatives_check.py, split_threshold_check.py)."""
+    return retrieved_negatives(random.Random(seed).sample(list(cuad_dev), questions))
