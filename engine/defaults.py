@@ -42,4 +42,4 @@ MAX_PDF_PAGES = 5000
 PDF_IN_CHILD_PROCESS = True  # a hung PDF page is killed after MAX_FILE_SECONDS * 2 + 10 s
 
 # Model folder (relative to the repository / installed package root).
-READER_MODEL_DIR = "models/reader-v8"
+READER_MODEL_DIR = "models/reader-v9"
