@@ -101,7 +101,9 @@ def main() -> int:
     args = parser.parse_args()
     args.model = args.model.resolve()
     calibration = load_calibration(args.model)
-    report: dict = {"model": str(args.model.relative_to(ROOT)), "threshold": calibration.null_margin_threshold,
+    # A model folder outside the repository (an old reader restored to /tmp, say) is named by its absolute path.
+    name = args.model.relative_to(ROOT) if args.model.is_relative_to(ROOT) else args.model
+    report: dict = {"model": str(name), "threshold": calibration.null_margin_threshold,
                     "default_quantize": calibration.default_quantize}
     out = args.out or args.model / "eval_report.json"
     report["squad_sample"] = args.squad_sample or "all"
