@@ -24,6 +24,7 @@ from engine.metrics import score_v1, score_v2  # noqa: E402
 from engine.reader.transformer_reader import QUANTIZE_CHOICES, TransformerReader  # noqa: E402
 from engine.squad_data import load_examples  # noqa: E402
 from engine.training.calibrate import budget_threshold  # noqa: E402
+from engine.training.document_threshold import document_path_predictions, document_path_scores  # noqa: E402
 
 DATA = ROOT.parent / "shared" / "data" / "qa"
 ORACLE_HASANS_BUDGET = 5.0  # the SQuAD v2.0 target: HasAns F1 within 5 points of the no-threshold run
@@ -97,7 +98,7 @@ def main() -> int:
     parser.add_argument("--squad-sample", type=int, default=0, help="random N questions of each SQuAD dev file (0 = all)")
     parser.add_argument("--only", nargs="*", default=None,
                         help="sections to run (default: all): variants demo demo_folder cuad_dev xquad300 tydi "
-                             "squad (= squad_v1 squad_v2) cuad")
+                             "squad (= squad_v1 squad_v2) cuad cuad_app")
     args = parser.parse_args()
     args.model = args.model.resolve()
     calibration = load_calibration(args.model)
@@ -157,6 +158,11 @@ def main() -> int:
         sample = random.Random(0).sample(cuad, min(args.cuad_sample, len(cuad)))
         report["cuad_test_sample"] = run(reader, sample, True, calibration.null_margin_threshold)
         save("cuad_test_sample")
+    if wanted("cuad_app"):  # every CUAD test question asked of its own contract the app's way (about 12 minutes)
+        cuad = load_examples(DATA / "test/cuad_test.json.gz")
+        predictions = document_path_predictions(reader, calibration, cuad)
+        report["cuad_test_app_path"] = document_path_scores(predictions, cuad, calibration.null_margin_threshold)
+        save("cuad_test_app_path")
     print(f"wrote {out}")
     return 0
 
