@@ -32,7 +32,7 @@ from engine.reader.interface import SpanReader
 from engine.squad_data import SquadExample
 from engine.text_tokens import tokenize_for_search
 from engine.training.calibrate import budget_threshold
-from engine.types import Document, Page
+from engine.types import Document, Page, Passage
 
 
 def contract_half(title: str) -> str:
@@ -41,7 +41,7 @@ def contract_half(title: str) -> str:
     return "fit" if int(hashlib.sha1(title.encode("utf-8")).hexdigest()[0], 16) % 2 == 0 else "judge"
 
 
-def contract_passages(title: str, context: str):
+def contract_passages(title: str, context: str) -> list[Passage]:
     """The app's passages of one contract held as a single text page."""
     page = Page(None, context, "whole file")
     doc = Document(f"{title}.txt", "txt", (page,), len(context), 0, "")
@@ -56,7 +56,7 @@ def document_path_predictions(reader: SpanReader, calibration: Calibration, exam
     if top_k < 1:
         raise ValueError(f"top_k must be >= 1 (got {top_k})")
     open_calibration = replace(calibration, null_margin_threshold=float("inf"))
-    indexes: dict[str, tuple[list, Bm25Index]] = {}
+    indexes: dict[str, tuple[list[Passage], Bm25Index]] = {}
     out: dict[str, Prediction] = {}
     for n, ex in enumerate(examples):
         if ex.context not in indexes:
