@@ -10,7 +10,8 @@ import pytest
 from engine.evaluation import Prediction
 from engine.squad_data import GoldAnswer, SquadExample
 from engine.training.document_threshold import (
-    contract_half, contract_passages, document_path_predictions, document_path_scores, fit_and_judge)
+    contract_half, contract_passages, document_path_predictions, document_path_predictions_by_k, document_path_scores,
+    fit_and_judge)
 from tests.fakes import FAKE_CALIBRATION, FakeReader
 
 
@@ -76,6 +77,9 @@ def test_replaying_the_app_path_reads_the_top_passages_of_the_questions_own_cont
     assert reader.windows_read == 2
     assert predictions["q1"].span_text in clause and predictions["q1"].null_margin < 0
     assert predictions["q2"].span_text == "" and math.isinf(predictions["q2"].null_margin)
-    with pytest.raises(ValueError, match="got 0"):
+    by_k = document_path_predictions_by_k(FakeReader(), FAKE_CALIBRATION, examples, (1, 2, 4))
+    assert by_k[2] == predictions  # one reading of the top 4, ranked on its first k passages
+    assert by_k[4]["q1"].null_margin <= by_k[1]["q1"].null_margin  # more passages: a best margin at least as high
+    with pytest.raises(ValueError, match=r"got \[0\]"):
         document_path_predictions(reader, FAKE_CALIBRATION, examples, top_k=0)
 

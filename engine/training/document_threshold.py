@@ -53,26 +53,31 @@ def document_path_predictions(reader: SpanReader, calibration: Calibration, exam
     """Each question asked of its own contract as the app asks it, with no threshold: ``best_score`` is the best
     margin m over the top-k passages' spans and ``null_score`` 0, so ``null_margin = -m``; ``span_text`` is the
     first answer in fused order ("" when no passage matched the question's words)."""
-    if top_k < 1:
-        raise ValueError(f"top_k must be >= 1 (got {top_k})")
+    return document_path_predictions_by_k(reader, calibration, examples, (top_k,), log)[top_k]
+
+
+def document_path_predictions_by_k(reader: SpanReader, calibration: Calibration, examples: Sequence[SquadExample],
+                                   ks: Sequence[int], log=None) -> dict[int, dict[str, Prediction]]:
+    """``document_path_predictions`` for several k at once: the top max(ks) passages are read once, and each k
+    ranks the first k of them."""
+    if not ks or min(ks) < 1:
+        raise ValueError(f"every k must be >= 1 (got {list(ks)})")
     open_calibration = replace(calibration, null_margin_threshold=float("inf"))
     indexes: dict[str, tuple[list[Passage], Bm25Index]] = {}
-    out: dict[str, Prediction] = {}
+    out: dict[int, dict[str, Prediction]] = {k: {} for k in ks}
     for n, ex in enumerate(examples):
         if ex.context not in indexes:
             passages = contract_passages(ex.title, ex.context)
             indexes[ex.context] = (passages, Bm25Index.build([tokenize_for_search(p.text) for p in passages]))
         passages, index = indexes[ex.context]
-        hits = index.top_k(tokenize_for_search(ex.question), top_k)
+        hits = index.top_k(tokenize_for_search(ex.question), max(ks))
         scored = [ScoredPassage(passages[i], float(s)) for i, s in hits]
         readings = reader.read_pairs([(ex.question, sp.passage.text) for sp in scored], n_best=5) if scored else []
-        result = rank_answers(ex.question, scored, readings, open_calibration, top_n=1)
-        if result.answers:
-            first = result.answers[0]
-            best = max(r.margin(i) for r in readings for i in range(len(r.spans)))
-            out[ex.qid] = Prediction(first.text, first.text, float(best), 0.0)
-        else:
-            out[ex.qid] = Prediction("", "", float("-inf"), 0.0)
+        for k in ks:
+            result = rank_answers(ex.question, scored[:k], readings[:k], open_calibration, top_n=1)
+            first = result.answers[0].text if result.answers else ""
+            best = max((r.margin(i) for r in readings[:k] for i in range(len(r.spans))), default=float("-inf"))
+            out[k][ex.qid] = Prediction(first, first, float(best), 0.0)
         if log is not None and (n + 1) % 100 == 0:
             log(f"{n + 1}/{len(examples)} questions read")
     return out
