@@ -42,8 +42,7 @@ def features(reading) -> tuple[float, float]:
     scores = np.array([s.score for s in reading.spans], dtype=np.float64)
     if scores.size == 0:
         return 0.0, 0.0
-    top = scores.max()
-    peak = float(top - (top + np.log(np.exp(scores - top).sum())))
+    peak = float(-np.log(np.exp(scores - scores.max()).sum()))  # s_best - logsumexp(s_j)
     agreement = float(expected_f1([s.text for s in reading.spans], list(scores)).max())
     return peak, agreement
 

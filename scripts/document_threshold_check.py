@@ -1,13 +1,12 @@
 """Fit and judge a no-answer threshold for the app's documents on whole contracts (rule contract30).
 
-Usage: .venv/bin/python scripts/document_threshold_check.py [--model DIR] [--file dev/cuad_dev.json.gz]
-       [--threshold T] [--out runs/x.json]
+Usage: .venv/bin/python scripts/document_threshold_check.py [--model DIR] [--out runs/x.json]
 
-Every question of the file is asked of its own contract the app's way (``document_threshold``). With the dev
-file, the threshold is fitted on the contracts of the "fit" half (``calibrate.budget_threshold``, the
-calibration's own 4-point answerable-F1 budget) and both it and the reader's shared threshold are scored on the
-"judge" half. ``--threshold`` scores a given threshold instead of fitting one (for test files: report only).
-Per-question margins and first answers go to ``--out`` so that a threshold can be re-scored without reading again.
+Every CUAD-dev question is asked of its own contract the app's way (``document_threshold``). A threshold is fitted
+on the contracts of the "fit" half (``calibrate.budget_threshold``, the calibration's own 4-point answerable-F1
+budget), and both it and the reader's shared threshold are scored on the "judge" half. Per-question margins and
+first answers go to ``--out`` so that a threshold can be re-scored without reading again. CUAD test is read the
+same way, report only, by ``evaluate_reader.py --only cuad_app``.
 """
 
 from __future__ import annotations
@@ -27,7 +26,7 @@ from engine.reader.transformer_reader import TransformerReader  # noqa: E402
 from engine.squad_data import load_examples  # noqa: E402
 from engine.training.calibrate import HASANS_F1_BUDGET  # noqa: E402
 from engine.training.document_threshold import (  # noqa: E402
-    document_path_predictions, document_path_scores, fit_and_judge)
+    document_path_predictions, fit_and_judge)
 
 DATA = ROOT.parent / "shared" / "data" / "qa"
 
@@ -35,25 +34,17 @@ DATA = ROOT.parent / "shared" / "data" / "qa"
 def main() -> int:
     parser = argparse.ArgumentParser()
     parser.add_argument("--model", type=Path, default=ROOT / defaults.READER_MODEL_DIR)
-    parser.add_argument("--file", default="dev/cuad_dev.json.gz")
-    parser.add_argument("--threshold", type=float, default=None)
     parser.add_argument("--out", type=Path, default=None)
     args = parser.parse_args()
-    if args.file.startswith("test/") and args.threshold is None:
-        parser.error("a test file is report only: give --threshold (got none)")
     calibration = load_calibration(args.model)
     reader = TransformerReader(args.model, quantize=calibration.default_quantize)
-    examples = load_examples(DATA / args.file)
+    examples = load_examples(DATA / "dev/cuad_dev.json.gz")
     started = time.time()
     predictions = document_path_predictions(reader, calibration, examples,
                                             log=lambda m: print(f"{m} ({time.time() - started:.0f} s)", flush=True))
-    report: dict = {"model": str(args.model), "file": args.file, "quantize": calibration.default_quantize,
-                    "shared_threshold": calibration.null_margin_threshold, "seconds": round(time.time() - started)}
-    if args.threshold is not None:
-        report["given"] = document_path_scores(predictions, examples, args.threshold)
-        report["shared"] = document_path_scores(predictions, examples, calibration.null_margin_threshold)
-    else:
-        report.update(fit_and_judge(predictions, examples, calibration.null_margin_threshold, HASANS_F1_BUDGET))
+    report: dict = {"model": str(args.model), "quantize": calibration.default_quantize,
+                    "shared_threshold": calibration.null_margin_threshold, "seconds": round(time.time() - started),
+                    **fit_and_judge(predictions, examples, calibration.null_margin_threshold, HASANS_F1_BUDGET)}
     print(json.dumps(report, indent=1), flush=True)
     if args.out is not None:
         rows = {e.qid: {"title": e.title, "null_margin": predictions[e.qid].null_margin,
